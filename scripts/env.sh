@@ -1,0 +1,15 @@
+# Development settings (npm start). Override any of them in the environment.
+export PW_DATA_DIR="${PW_DATA_DIR:-$ROOT/.data}"
+export PW_DB_PORT="${PW_DB_PORT:-3317}"
+export PW_SMTP_PORT="${PW_SMTP_PORT:-2525}"
+export DB_HOST=127.0.0.1
+export DB_PORT="$PW_DB_PORT"
+export DB_NAME="${DB_NAME:-phasewright}"
+export DB_USER="${DB_USER:-phasewright}"
+export DB_PASSWORD="${DB_PASSWORD:-phasewright-local}"
+export SMTP_URL="${SMTP_URL:-smtp://127.0.0.1:$PW_SMTP_PORT}"
+export MAIL_DIR="${MAIL_DIR:-$PW_DATA_DIR/mail}"
+export PORT="${PORT:-3000}"
+export HOST="${HOST:-127.0.0.1}"
+export ORIGIN="${ORIGIN:-http://127.0.0.1:$PORT}"
+export PW_DEV_OUTBOX="${PW_DEV_OUTBOX:-1}"

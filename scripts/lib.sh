@@ -1,0 +1,135 @@
+# Shared shell helpers for start, stop and test. Sourced, never run.
+# Every message here is meant for a newcomer: say what failed and what to do.
+
+ROOT="$(cd "$(dirname "${BASH_SOURCE[0]}")/.." && pwd)"
+cd "$ROOT"
+
+say() { printf '\033[36mphasewright\033[0m %s\n' "$*"; }
+die() { printf '\033[31mphasewright: %s\033[0m\n' "$*" >&2; exit 1; }
+
+port_in_use() { (exec 3<>"/dev/tcp/127.0.0.1/$1") 2>/dev/null; }
+
+free_port_from() {
+	local p=$1
+	while port_in_use "$p"; do p=$((p + 1)); done
+	echo "$p"
+}
+
+# Debian packages the project needs, installed only when missing.
+ensure_system_packages() {
+	local want=()
+	command -v mariadbd >/dev/null 2>&1 || [ -x /usr/sbin/mariadbd ] || want+=(mariadb-server mariadb-client)
+	if [ "${1:-}" = "--with-browser" ]; then
+		command -v chromium >/dev/null 2>&1 || want+=(chromium)
+	fi
+	[ ${#want[@]} -eq 0 ] && return 0
+	say "installing system packages: ${want[*]}"
+	local sudo=""
+	if [ "$(id -u)" != 0 ]; then
+		command -v sudo >/dev/null 2>&1 || die "need root to install ${want[*]}; run: sudo apt-get install -y ${want[*]}"
+		sudo="sudo"
+	fi
+	if ! { $sudo apt-get update -qq && DEBIAN_FRONTEND=noninteractive $sudo apt-get install -y -qq "${want[@]}"; } >/tmp/phasewright-apt.log 2>&1; then
+		tail -n 15 /tmp/phasewright-apt.log >&2
+		die "could not install ${want[*]} with apt-get (log above, full log in /tmp/phasewright-apt.log); install them by hand and run again"
+	fi
+}
+
+ensure_node_modules() {
+	if [ ! -d node_modules ] || [ ! -f node_modules/.package-lock.json ] || [ package-lock.json -nt node_modules/.package-lock.json ]; then
+		say "installing node modules (npm ci)"
+		npm ci --no-audit --no-fund >/tmp/phasewright-npm.log 2>&1 || {
+			tail -n 20 /tmp/phasewright-npm.log >&2
+			die "npm ci failed (log above, full log in /tmp/phasewright-npm.log)"
+		}
+	fi
+}
+
+export PATH="/usr/sbin:/usr/bin:$PATH"
+
+# db_start DATADIR PORT [extra mariadbd flags...]
+# Idempotent: a running instance on that data dir is left alone; data is kept across restarts.
+db_start() {
+	local datadir=$1 port=$2; shift 2
+	local sock="$datadir/mysqld.sock" pidf="$datadir/mysqld.pid" log="$datadir/error.log"
+	mkdir -p "$datadir"
+	if mariadb-admin --no-defaults --socket="$sock" -uroot ping >/dev/null 2>&1; then
+		return 0
+	fi
+	if port_in_use "$port"; then
+		die "port $port is taken by another program, so MariaDB cannot listen there. Stop that program or pick another port: PW_DB_PORT=3318 npm start"
+	fi
+	if [ ! -d "$datadir/mysql" ]; then
+		mariadb-install-db --no-defaults --datadir="$datadir" --user=root \
+			--auth-root-authentication-method=socket --skip-test-db >"$datadir/install.log" 2>&1 || {
+			tail -n 20 "$datadir/install.log" >&2
+			die "mariadb-install-db failed for $datadir (log above)"
+		}
+	fi
+	setsid mariadbd --no-defaults --user=root --datadir="$datadir" --bind-address=127.0.0.1 \
+		--port="$port" --socket="$sock" --pid-file="$pidf" --log-error="$log" \
+		--character-set-server=utf8mb4 --collation-server=utf8mb4_unicode_ci \
+		--max-allowed-packet=256M "$@" </dev/null >/dev/null 2>&1 &
+	local i
+	for i in $(seq 1 150); do
+		mariadb-admin --no-defaults --socket="$sock" -uroot ping >/dev/null 2>&1 && return 0
+		sleep 0.2
+	done
+	echo "--- last lines of $log ---" >&2
+	tail -n 25 "$log" >&2 2>/dev/null
+	die "MariaDB did not start on 127.0.0.1:$port (its log is above)"
+}
+
+# db_provision DATADIR DBNAME USER PASSWORD
+db_provision() {
+	local sock="$1/mysqld.sock"
+	mariadb --no-defaults --socket="$sock" -uroot <<SQL || die "could not create database $2"
+CREATE DATABASE IF NOT EXISTS \`$2\` CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci;
+CREATE USER IF NOT EXISTS '$3'@'127.0.0.1' IDENTIFIED BY '$4';
+CREATE USER IF NOT EXISTS '$3'@'localhost' IDENTIFIED BY '$4';
+GRANT ALL PRIVILEGES ON \`$2\`.* TO '$3'@'127.0.0.1';
+GRANT ALL PRIVILEGES ON \`$2\`.* TO '$3'@'localhost';
+FLUSH PRIVILEGES;
+SQL
+}
+
+db_stop() {
+	local datadir=$1 pidf="$1/mysqld.pid"
+	[ -f "$pidf" ] || return 0
+	local pid; pid=$(cat "$pidf" 2>/dev/null)
+	if [ -n "$pid" ] && kill -0 "$pid" 2>/dev/null; then
+		kill "$pid" 2>/dev/null
+		local i
+		for i in $(seq 1 100); do
+			# A dead server can linger as a zombie for a moment: count that as stopped.
+			local st; st=$(ps -o stat= -p "$pid" 2>/dev/null)
+			[ -z "$st" ] || [[ "$st" == Z* ]] && break
+			sleep 0.1
+		done
+	fi
+	rm -f "$pidf"
+}
+
+# mail_start DIR PORT PIDFILE
+mail_start() {
+	local dir=$1 port=$2 pidf=$3
+	mkdir -p "$dir"
+	if [ -f "$pidf" ] && kill -0 "$(cat "$pidf")" 2>/dev/null; then return 0; fi
+	if port_in_use "$port"; then
+		die "port $port is taken by another program, so the mail fake cannot listen there. Pick another: PW_SMTP_PORT=2626 npm start"
+	fi
+	MAIL_DIR="$dir" SMTP_PORT="$port" setsid node --import tsx scripts/mail-fake.ts \
+		</dev/null >"$dir/../mail-fake.log" 2>&1 &
+	echo $! >"$pidf"
+	local i
+	for i in $(seq 1 100); do port_in_use "$port" && return 0; sleep 0.1; done
+	tail -n 20 "$dir/../mail-fake.log" >&2
+	die "the mail fake did not start on 127.0.0.1:$port (log above)"
+}
+
+mail_stop() {
+	local pidf=$1
+	[ -f "$pidf" ] || return 0
+	kill "$(cat "$pidf")" 2>/dev/null
+	rm -f "$pidf"
+}

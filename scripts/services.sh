@@ -1,0 +1,17 @@
+#!/usr/bin/env bash
+# Start or stop the background services (MariaDB and the mail fake) for development.
+set -euo pipefail
+source "$(dirname "$0")/lib.sh"
+source "$ROOT/scripts/env.sh"
+case "${1:-}" in
+	up)
+		db_start "$PW_DATA_DIR/mariadb" "$PW_DB_PORT"
+		db_provision "$PW_DATA_DIR/mariadb" "$DB_NAME" "$DB_USER" "$DB_PASSWORD"
+		mail_start "$MAIL_DIR" "$PW_SMTP_PORT" "$PW_DATA_DIR/mail-fake.pid"
+		;;
+	down)
+		mail_stop "$PW_DATA_DIR/mail-fake.pid"
+		db_stop "$PW_DATA_DIR/mariadb"
+		;;
+	*) die "usage: scripts/services.sh up|down" ;;
+esac

@@ -1,0 +1,5 @@
+#!/usr/bin/env bash
+set -euo pipefail
+source "$(dirname "$0")/lib.sh"
+bash scripts/services.sh down
+say "stopped MariaDB and the mail fake (data kept in .data/)"

@@ -1,0 +1,55 @@
+#!/usr/bin/env bash
+# npm test: everything from a clean clone. A throwaway MariaDB and mail fake in /dev/shm,
+# migrations, vitest (unit + integration), type checks and lint, a production build,
+# Playwright in Debian's Chromium. One closing line sums every runner.
+set -uo pipefail
+source "$(dirname "$0")/lib.sh"
+
+ensure_system_packages --with-browser
+ensure_node_modules
+
+T="/dev/shm/phasewright-test-$$"
+mkdir -p "$T"
+export PW_DB_PORT; PW_DB_PORT=$(free_port_from "${PW_TEST_DB_PORT:-3417}")
+export PW_SMTP_PORT; PW_SMTP_PORT=$(free_port_from "${PW_TEST_SMTP_PORT:-2625}")
+export E2E_PORT; E2E_PORT=$(free_port_from "${PW_TEST_APP_PORT:-4173}")
+export DB_HOST=127.0.0.1 DB_PORT=$PW_DB_PORT DB_NAME=phasewright_test DB_USER=phasewright DB_PASSWORD=phasewright-test
+export SMTP_URL="smtp://127.0.0.1:$PW_SMTP_PORT" MAIL_DIR="$T/mail" PW_DEV_OUTBOX=1
+export PW_TEST_DATADIR="$T/mariadb" PW_TEST_RUN=1
+export ORIGIN="http://127.0.0.1:$E2E_PORT"
+
+cleanup() {
+	mail_stop "$T/mail-fake.pid"
+	db_stop "$T/mariadb"
+	rm -rf "$T"
+}
+trap cleanup EXIT
+
+say "throwaway MariaDB on 127.0.0.1:$PW_DB_PORT, mail fake on :$PW_SMTP_PORT, under $T"
+db_start "$T/mariadb" "$PW_DB_PORT" --innodb-flush-log-at-trx-commit=0 --innodb-doublewrite=0 --skip-log-bin
+db_provision "$T/mariadb" "$DB_NAME" "$DB_USER" "$DB_PASSWORD"
+mail_start "$T/mail" "$PW_SMTP_PORT" "$T/mail-fake.pid"
+
+STEPS="$T/steps.txt"; : >"$STEPS"
+step() { # step NAME command...
+	local name=$1; shift
+	say "── $name"
+	if "$@"; then echo "$name ok" >>"$STEPS"; else echo "$name FAILED" >>"$STEPS"; fi
+}
+
+step migrate node --import tsx scripts/migrate.ts latest
+npx svelte-kit sync >/dev/null 2>&1
+say "── vitest"
+npx vitest run --reporter=default --reporter=json --outputFile.json="$T/vitest.json"
+step check npm run -s check
+step build npx vite build --logLevel warn
+say "── playwright"
+if grep -q "build ok" "$STEPS"; then
+	node --import tsx scripts/migrate.ts seed >/dev/null
+	PW_JSON_REPORT="$T/playwright.json" npx playwright test
+else
+	say "skipping Playwright: the build failed"
+fi
+
+echo
+node scripts/test-summary.mjs "$T/vitest.json" "$T/playwright.json" "$STEPS"
