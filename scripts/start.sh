@@ -5,7 +5,7 @@ source "$(dirname "$0")/lib.sh"
 source "$ROOT/scripts/env.sh"
 
 if port_in_use "$PORT"; then
-	die "port $PORT is already in use (is Phasewright already running?). Stop that program or choose another port: PORT=3100 npm start"
+	die "port $PORT is already in use (is Phasewright already running?). Stop that program or choose another port: PORT=$((PORT + 1)) npm start"
 fi
 
 ensure_system_packages

@@ -1,0 +1,323 @@
+// The pixi.js scene behind DialBoard.svelte. Imported dynamically inside onMount only: pixi
+// touches `navigator` on import, which would break server rendering.
+//
+// Angles are in turns; a dial's 0 is at twelve o'clock and angles grow clockwise, as a
+// reader expects of a dial (the direction is stated in the board's legend).
+import { Application, Circle, Container, Graphics, Text, type FederatedPointerEvent } from 'pixi.js';
+import {
+	groupByRegister,
+	isDiverged,
+	layoutDials,
+	shortestTurn,
+	visibleTickCount,
+	type DialLayout,
+	type DialQubit
+} from './dial-model';
+
+const C = {
+	background: 0x151a24,
+	panel: 0x1f2533,
+	ring: 0x2d3546,
+	tick: 0x9aa0ad,
+	paper: 0xf6f1e7,
+	needle: 0xf1dccb,
+	expected: 0x2f7d6d,
+	expectedLight: 0xcfe6df,
+	diverged: 0xc2362b,
+	selected: 0xb8652f,
+	header: 0x9aa0ad
+} as const;
+
+const RADIUS = 30;
+const ANIMATION_MS = 220;
+
+interface Dial {
+	q: DialQubit;
+	root: Container;
+	face: Graphics;
+	hand: Graphics;
+	title: Text;
+	sub: Text;
+	shown: number; // angle currently drawn (turns)
+	from: number;
+	to: number;
+	t0: number;
+	animating: boolean;
+	faceKey: string;
+}
+
+export interface DialSceneOptions {
+	onselect?: (qubit: number) => void;
+	onhover?: (qubit: number | null, x: number, y: number) => void;
+}
+
+export interface DialScene {
+	update(qubits: DialQubit[], selected: number | null, animate: boolean): void;
+	/** Average ms between rendered frames over the last second (for the benchmark). */
+	frameStats(): { frames: number; avgMs: number; maxMs: number };
+	zoom(factor: number): void;
+	resetView(): void;
+	/** Draws now so a snapshot of the canvas holds the current frame. */
+	render(): void;
+	canvas: HTMLCanvasElement;
+	destroy(): void;
+}
+
+export async function createDialScene(host: HTMLElement, opts: DialSceneOptions = {}): Promise<DialScene> {
+	const app = new Application();
+	await app.init({
+		resizeTo: host,
+		background: C.background,
+		antialias: true,
+		preserveDrawingBuffer: true,
+		preference: 'webgl',
+		autoDensity: true,
+		resolution: Math.min(2, globalThis.devicePixelRatio || 1)
+	});
+	host.appendChild(app.canvas);
+	app.canvas.setAttribute('aria-hidden', 'true');
+
+	const world = new Container();
+	app.stage.addChild(world);
+	app.stage.eventMode = 'static';
+	app.stage.hitArea = app.screen;
+
+	const dials = new Map<number, Dial>();
+	const headers: Text[] = [];
+	let layout: DialLayout | null = null;
+	let structureKey = '';
+	let selected: number | null = null;
+	let lodSmall = false;
+
+	// --- frame statistics (time between rendered frames) ---
+	const intervals: number[] = [];
+	let lastFrame = performance.now();
+	app.ticker.add(() => {
+		const now = performance.now();
+		intervals.push(now - lastFrame);
+		lastFrame = now;
+		if (intervals.length > 240) intervals.shift();
+		step(now);
+	});
+
+	function drawFace(d: Dial) {
+		const q = d.q;
+		const isSel = selected === q.qubit;
+		const key = `${q.kind}|${q.level ?? ''}|${q.bit ?? ''}|${isSel}|${lodSmall}|${isDiverged(q)}`;
+		if (key === d.faceKey) return;
+		d.faceKey = key;
+		const g = d.face;
+		g.clear();
+		g.circle(0, 0, RADIUS + 6).fill({ color: C.panel });
+		g.circle(0, 0, RADIUS).stroke({ width: isSel ? 3 : 2, color: isSel ? C.selected : C.ring });
+		if (isDiverged(q)) g.circle(0, 0, RADIUS + 4).stroke({ width: 1.5, color: C.diverged, alpha: 0.9 });
+		if (q.kind !== 'classical' && q.level !== undefined && !lodSmall) {
+			const n = visibleTickCount(q.level, RADIUS);
+			for (let i = 0; i < n; i++) {
+				const a = (i / n) * Math.PI * 2 - Math.PI / 2;
+				const major = i === 0;
+				const r0 = major ? RADIUS - 7 : RADIUS - 4;
+				g.moveTo(Math.cos(a) * r0, Math.sin(a) * r0).lineTo(Math.cos(a) * RADIUS, Math.sin(a) * RADIUS);
+			}
+			g.stroke({ width: 1, color: C.tick, alpha: 0.8 });
+		}
+		if (q.kind === 'classical') {
+			if (q.bit === 1) g.circle(0, 0, 11).fill({ color: C.paper });
+			else g.circle(0, 0, 11).stroke({ width: 2, color: C.tick });
+		}
+	}
+
+	function drawHand(d: Dial) {
+		const q = d.q;
+		const g = d.hand;
+		g.clear();
+		if (q.kind === 'classical') return;
+		const toXY = (turns: number, r: number) => {
+			const a = turns * Math.PI * 2 - Math.PI / 2;
+			return [Math.cos(a) * r, Math.sin(a) * r] as const;
+		};
+		const diverged = isDiverged(q);
+		if (q.expected !== undefined) {
+			if (diverged && !d.animating) {
+				// The arc from expected to actual, the short way round.
+				const delta = shortestTurn(q.expected, d.shown);
+				const a0 = q.expected * Math.PI * 2 - Math.PI / 2;
+				const a1 = a0 + delta * Math.PI * 2;
+				g.arc(0, 0, RADIUS - 10, Math.min(a0, a1), Math.max(a0, a1)).stroke({ width: 4, color: C.diverged, alpha: 0.85 });
+			}
+			const [ex, ey] = toXY(q.expected, RADIUS);
+			g.circle(ex, ey, 5).stroke({ width: 2, color: C.expectedLight });
+		}
+		const len = (RADIUS - 5) * Math.max(0.08, Math.min(1, q.coherence ?? 1));
+		const [nx, ny] = toXY(d.shown, len);
+		g.moveTo(0, 0).lineTo(nx, ny).stroke({ width: 3, color: diverged ? C.diverged : C.needle, cap: 'round' });
+		g.circle(0, 0, 3.5).fill({ color: C.paper });
+	}
+
+	function subText(q: DialQubit): string {
+		if (q.kind === 'classical') return `bit ${q.bit}`;
+		const lvl = q.level !== undefined ? `m=${q.level} ` : '';
+		const ang = q.angleText ?? (q.angle !== undefined ? q.angle.toFixed(4) : '?');
+		return `${lvl}${ang}${isDiverged(q) ? ' Δ' : ''}`;
+	}
+
+	function build(qubits: DialQubit[]) {
+		for (const d of dials.values()) d.root.destroy({ children: true });
+		dials.clear();
+		for (const h of headers) h.destroy();
+		headers.length = 0;
+		const groups = groupByRegister(qubits);
+		layout = layoutDials(groups, Math.max(240, app.screen.width / world.scale.x));
+		for (const h of layout.headers) {
+			const t = new Text({ text: h.register, style: { fontFamily: 'IBM Plex Mono', fontSize: 13, fill: C.header, fontWeight: '600' } });
+			t.position.set(h.x, h.y);
+			world.addChild(t);
+			headers.push(t);
+		}
+		const pos = new Map(layout.positions.map((p) => [p.qubit, p]));
+		for (const q of qubits) {
+			const p = pos.get(q.qubit)!;
+			const root = new Container();
+			root.position.set(p.x, p.y);
+			root.eventMode = 'static';
+			root.cursor = 'pointer';
+			root.hitArea = new Circle(0, 0, RADIUS + 6);
+			const face = new Graphics();
+			const hand = new Graphics();
+			const title = new Text({ text: `${q.register}[${q.index}]`, style: { fontFamily: 'IBM Plex Mono', fontSize: 11, fill: C.paper } });
+			title.anchor.set(0.5, 0);
+			title.position.set(0, RADIUS + 8);
+			const sub = new Text({ text: '', style: { fontFamily: 'IBM Plex Mono', fontSize: 10, fill: C.tick } });
+			sub.anchor.set(0.5, 0);
+			sub.position.set(0, RADIUS + 21);
+			root.addChild(face, hand, title, sub);
+			const qubit = q.qubit;
+			root.on('pointertap', () => opts.onselect?.(qubit));
+			root.on('pointerover', (e: FederatedPointerEvent) => opts.onhover?.(qubit, e.global.x, e.global.y));
+			root.on('pointerout', () => opts.onhover?.(null, 0, 0));
+			world.addChild(root);
+			const a = q.angle ?? 0;
+			dials.set(q.qubit, { q, root, face, hand, title, sub, shown: a, from: a, to: a, t0: 0, animating: false, faceKey: '' });
+		}
+		cull();
+	}
+
+	function step(now: number) {
+		for (const d of dials.values()) {
+			if (!d.animating || !d.root.visible) continue;
+			const t = Math.min(1, (now - d.t0) / ANIMATION_MS);
+			const e = 1 - (1 - t) * (1 - t) * (1 - t);
+			d.shown = (((d.from + shortestTurn(d.from, d.to) * e) % 1) + 1) % 1;
+			if (t >= 1) {
+				d.shown = d.to;
+				d.animating = false;
+			}
+			drawHand(d);
+		}
+	}
+
+	function cull() {
+		const s = world.scale.x;
+		const small = RADIUS * s < 14;
+		const lodChanged = small !== lodSmall;
+		lodSmall = small;
+		const x0 = -world.x / s - RADIUS * 2;
+		const y0 = -world.y / s - RADIUS * 2;
+		const x1 = x0 + app.screen.width / s + RADIUS * 4;
+		const y1 = y0 + app.screen.height / s + RADIUS * 4;
+		for (const d of dials.values()) {
+			const { x, y } = d.root.position;
+			const vis = x >= x0 && x <= x1 && y >= y0 && y <= y1;
+			d.root.visible = vis;
+			d.title.visible = d.sub.visible = !small;
+			if (vis && (lodChanged || d.faceKey === '')) {
+				drawFace(d);
+				drawHand(d);
+			}
+		}
+	}
+
+	// --- zoom (wheel, around the pointer) and pan (drag on the background) ---
+	function zoomAt(factor: number, cx: number, cy: number) {
+		const s0 = world.scale.x;
+		const s1 = Math.min(3, Math.max(0.15, s0 * factor));
+		world.x = cx - ((cx - world.x) * s1) / s0;
+		world.y = cy - ((cy - world.y) * s1) / s0;
+		world.scale.set(s1);
+		cull();
+	}
+	const onWheel = (e: WheelEvent) => {
+		e.preventDefault();
+		const r = app.canvas.getBoundingClientRect();
+		zoomAt(e.deltaY < 0 ? 1.12 : 1 / 1.12, e.clientX - r.left, e.clientY - r.top);
+	};
+	app.canvas.addEventListener('wheel', onWheel, { passive: false });
+	let drag: { x: number; y: number; wx: number; wy: number } | null = null;
+	app.stage.on('pointerdown', (e: FederatedPointerEvent) => {
+		drag = { x: e.global.x, y: e.global.y, wx: world.x, wy: world.y };
+	});
+	app.stage.on('pointermove', (e: FederatedPointerEvent) => {
+		if (!drag) return;
+		world.x = drag.wx + e.global.x - drag.x;
+		world.y = drag.wy + e.global.y - drag.y;
+		cull();
+	});
+	const endDrag = () => (drag = null);
+	app.stage.on('pointerup', endDrag);
+	app.stage.on('pointerupoutside', endDrag);
+	app.renderer.on('resize', () => cull());
+
+	return {
+		canvas: app.canvas,
+		update(qubits, sel, animate) {
+			const key = qubits.map((q) => `${q.qubit}:${q.register}:${q.index}`).join(',');
+			selected = sel;
+			if (key !== structureKey) {
+				structureKey = key;
+				build(qubits);
+			}
+			const now = performance.now();
+			for (const q of qubits) {
+				const d = dials.get(q.qubit);
+				if (!d) continue;
+				d.q = q;
+				const target = q.angle ?? 0;
+				if (animate && Math.abs(shortestTurn(d.shown, target)) > 1e-12) {
+					d.from = d.shown;
+					d.to = target;
+					d.t0 = now;
+					d.animating = true;
+				} else {
+					d.shown = d.to = target;
+					d.animating = false;
+				}
+				const text = subText(q);
+				if (d.sub.text !== text) d.sub.text = text;
+				if (d.root.visible) {
+					drawFace(d);
+					drawHand(d);
+				} else d.faceKey = '';
+			}
+		},
+		frameStats() {
+			const xs = intervals.slice(-120);
+			const sum = xs.reduce((a, b) => a + b, 0);
+			return { frames: xs.length, avgMs: xs.length ? sum / xs.length : 0, maxMs: xs.length ? Math.max(...xs) : 0 };
+		},
+		zoom(f) {
+			zoomAt(f, app.screen.width / 2, app.screen.height / 2);
+		},
+		resetView() {
+			world.scale.set(1);
+			world.position.set(0, 0);
+			cull();
+		},
+		render() {
+			app.renderer.render(app.stage);
+		},
+		destroy() {
+			app.canvas.removeEventListener('wheel', onWheel);
+			app.destroy(true, { children: true });
+		}
+	};
+}
