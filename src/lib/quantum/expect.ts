@@ -1,0 +1,350 @@
+/**
+ * Expected values: from each library block's stated effect (and its reference lowering inside
+ * the block) derive, for given basis-state inputs, what every qubit should hold at each step.
+ *
+ * Qubit order: flat qubits. Angle units: an expected Fourier qubit at level m holding value v
+ * has phase (v mod 2^m)/2^m turn; stored as numerator `num` over 2^level.
+ *
+ * Events are stated at block boundaries (every qubit of every register the block writes) and
+ * inside blocks after each reference step: QFT/iQFT after every gate, adders after every
+ * rotation unit (one (j, k) pair, i.e. one cp or one whole ccp lowering). An expectation stays
+ * valid ("fresh") until a gate touches the qubit again.
+ */
+import { GateCode, fourierLevel, type BlockInstance, type FourierLayout, type LoweredCircuit, type PlacedRegister, type ValueExpr } from './circuit.js';
+
+/** Kind codes of expectation events. */
+export const ExpectKind = { unknown: 0, classical: 1, fourier: 2 } as const;
+
+/** Expectation events in step order (struct of arrays). Event e: at step `step[e]`, qubit `qubit[e]` should be … */
+export interface ExpectationEvents {
+	length: number;
+	step: Int32Array;
+	qubit: Int32Array;
+	kind: Uint8Array;
+	/** classical: the bit; fourier: the level m */
+	level: Int32Array;
+	/** fourier: numerator over 2^level (0 ≤ num < 2^level); classical/unknown: 0n */
+	num: bigint[];
+	/** 1 when stated at a block boundary (effect), 0 for a partial inside a block */
+	boundary: Uint8Array;
+	/** Problems noticed (block requirements not met, unknown inputs). */
+	warnings: { block: number; message: string }[];
+}
+
+/** Semantic state of one register during the expectation pass. */
+interface RegState {
+	basis: 'computational' | 'fourier';
+	layout: FourierLayout;
+	value: bigint | null;
+}
+
+class EventSink implements ExpectationEvents {
+	length = 0;
+	step = new Int32Array(1024);
+	qubit = new Int32Array(1024);
+	kind = new Uint8Array(1024);
+	level = new Int32Array(1024);
+	num: bigint[] = [];
+	boundary = new Uint8Array(1024);
+	warnings: { block: number; message: string }[] = [];
+	push(step: number, qubit: number, kind: number, level: number, num: bigint, boundary: number): void {
+		if (this.length === this.step.length) {
+			const cap = this.length * 2;
+			const grow = <T extends Int32Array | Uint8Array>(a: T, make: (n: number) => T): T => {
+				const b = make(cap);
+				b.set(a);
+				return b;
+			};
+			this.step = grow(this.step, (n) => new Int32Array(n));
+			this.qubit = grow(this.qubit, (n) => new Int32Array(n));
+			this.kind = grow(this.kind, (n) => new Uint8Array(n));
+			this.level = grow(this.level, (n) => new Int32Array(n));
+			this.boundary = grow(this.boundary, (n) => new Uint8Array(n));
+		}
+		const i = this.length++;
+		this.step[i] = step;
+		this.qubit[i] = qubit;
+		this.kind[i] = kind;
+		this.level[i] = level;
+		this.num.push(num);
+		this.boundary[i] = boundary;
+	}
+}
+
+const mod2 = (v: bigint, bits: number): bigint => {
+	const m = 1n << BigInt(bits);
+	const r = v % m;
+	return r < 0n ? r + m : r;
+};
+
+/** Evaluate a {@link ValueExpr} over register values (null when any input is unknown). */
+export function evaluateValue(e: ValueExpr, values: (name: string) => bigint | null): bigint | null {
+	switch (e.op) {
+		case 'reg':
+			return values(e.name);
+		case 'const':
+			return BigInt(e.value);
+		case 'bit': {
+			const v = values(e.register);
+			return v === null ? null : (v >> BigInt(e.index)) & 1n;
+		}
+		case 'bits': {
+			const v = evaluateValue(e.of, values);
+			return v === null ? null : mod2(v >> BigInt(e.lo), e.len);
+		}
+		case 'shl': {
+			const v = evaluateValue(e.of, values);
+			return v === null ? null : v << BigInt(e.by);
+		}
+		case 'add': {
+			let t = 0n;
+			for (const x of e.terms) {
+				const v = evaluateValue(x, values);
+				if (v === null) return null;
+				t += v;
+			}
+			return t;
+		}
+		case 'mul': {
+			let t = 1n;
+			for (const x of e.factors) {
+				const v = evaluateValue(x, values);
+				if (v === null) return null;
+				t *= v;
+			}
+			return t;
+		}
+	}
+}
+
+/**
+ * Compute expectation events for a run whose register `r` starts in basis state `inputs[r]`
+ * (null = unknown, e.g. a register in superposition). Steps: step s is the state after s gates.
+ */
+export function computeExpectations(c: LoweredCircuit, inputs: Map<string, bigint | null>): ExpectationEvents {
+	const ev = new EventSink();
+	const env = new Map<string, RegState>();
+	const regOfQubit = new Int32Array(c.qubitCount);
+	c.registers.forEach((r, i) => {
+		for (let k = 0; k < r.size; k++) regOfQubit[r.offset + k] = i;
+		const v = inputs.get(r.name);
+		env.set(r.name, { basis: 'computational', layout: 'unswapped', value: v === undefined ? 0n : v === null ? null : mod2(v, r.size) });
+	});
+	const regByName = new Map(c.registers.map((r) => [r.name, r]));
+
+	const stateFromEnv = (step: number, q: number, boundary: number) => {
+		const r = c.registers[regOfQubit[q]];
+		const st = env.get(r.name)!;
+		if (st.value === null) return ev.push(step, q, ExpectKind.unknown, 0, 0n, boundary);
+		const i = q - r.offset;
+		if (st.basis === 'computational') return ev.push(step, q, ExpectKind.classical, Number((st.value >> BigInt(i)) & 1n), 0n, boundary);
+		const m = fourierLevel(st.layout, r.size, i);
+		ev.push(step, q, ExpectKind.fourier, m, mod2(st.value, m), boundary);
+	};
+	const stateRegister = (step: number, r: PlacedRegister, boundary: number) => {
+		for (let i = 0; i < r.size; i++) stateFromEnv(step, r.offset + i, boundary);
+	};
+	for (const r of c.registers) stateRegister(0, r, 1);
+
+	const touched = (g: number, f: (q: number) => void) => {
+		for (let i = c.qubitStart[g]; i < c.qubitStart[g + 1]; i++) f(c.qubitList[i]);
+	};
+	const valueOf = (name: string) => env.get(name)?.value ?? null;
+	const bitOf = (q: number): bigint | null => {
+		const r = c.registers[regOfQubit[q]];
+		const st = env.get(r.name)!;
+		if (st.value === null || st.basis !== 'computational') return null;
+		return (st.value >> BigInt(q - r.offset)) & 1n;
+	};
+
+	/** A gate outside any library block: classical gates on known computational registers stay known. */
+	const rawGate = (g: number) => {
+		const k = c.kinds[g];
+		const classical = k === GateCode.x || k === GateCode.cx || k === GateCode.ccx || k === GateCode.mcx || k === GateCode.swap;
+		let ok = classical;
+		touched(g, (q) => {
+			if (bitOf(q) === null) ok = false;
+		});
+		if (ok) {
+			const q0 = c.qubitStart[g];
+			const q1 = c.qubitStart[g + 1];
+			const setBit = (q: number, b: bigint) => {
+				const r = c.registers[regOfQubit[q]];
+				const st = env.get(r.name)!;
+				const m = 1n << BigInt(q - r.offset);
+				st.value = b ? st.value! | m : st.value! & ~m;
+			};
+			if (k === GateCode.swap) {
+				const a = c.qubitList[q0];
+				const b = c.qubitList[q0 + 1];
+				const ba = bitOf(a)!;
+				setBit(a, bitOf(b)!);
+				setBit(b, ba);
+			} else {
+				let all = true;
+				for (let i = q0; i < q1 - 1; i++) if (bitOf(c.qubitList[i]) === 0n) all = false;
+				const t = c.qubitList[q1 - 1];
+				if (all) setBit(t, bitOf(t)! ^ 1n);
+			}
+		} else {
+			touched(g, (q) => {
+				env.get(c.registers[regOfQubit[q]].name)!.value = null;
+			});
+		}
+		touched(g, (q) => stateFromEnv(g + 1, q, 0));
+	};
+
+	const children = new Map<number, BlockInstance[]>();
+	for (const b of c.blocks) {
+		const list = children.get(b.parent) ?? [];
+		list.push(b);
+		children.set(b.parent, list);
+	}
+
+	const processRange = (parent: number, start: number, end: number) => {
+		let g = start;
+		for (const b of children.get(parent) ?? []) {
+			for (; g < b.start; g++) rawGate(g);
+			processBlock(b);
+			g = b.end;
+		}
+		for (; g < end; g++) rawGate(g);
+	};
+
+	const requirementsMet = (b: BlockInstance): boolean => {
+		for (const req of b.effect?.requires ?? []) {
+			const st = env.get(req.register)!;
+			if (st.value === null) return false;
+			if (st.basis !== req.basis || (req.basis === 'fourier' && req.layout && st.layout !== req.layout)) {
+				ev.warnings.push({
+					block: b.index,
+					message: `${b.label}: expects ${req.register} in the ${req.basis} basis${req.layout ? ` (${req.layout})` : ''}, but it is ${st.basis}${st.basis === 'fourier' ? ` (${st.layout})` : ''}`
+				});
+				return false;
+			}
+		}
+		return true;
+	};
+
+	const applyEffect = (b: BlockInstance, entry: Map<string, bigint | null>, ok: boolean) => {
+		for (const w of b.effect?.writes ?? []) {
+			const r = regByName.get(w.register)!;
+			const v = ok ? evaluateValue(w.value, (n) => entry.get(n) ?? null) : null;
+			env.set(w.register, { basis: w.basis, layout: w.layout ?? 'unswapped', value: v === null ? null : mod2(v, r.size) });
+			stateRegister(b.end, r, 1);
+		}
+	};
+
+	const processBlock = (b: BlockInstance) => {
+		const spec = b.spec;
+		if (spec.kind === 'call' || spec.kind === 'ccp') {
+			processRange(b.index, b.start, b.end);
+			return;
+		}
+		const entry = new Map<string, bigint | null>();
+		for (const [k, v] of env) entry.set(k, v.value);
+		const ok = requirementsMet(b);
+		if (ok) {
+			if (spec.kind === 'multiply') processRange(b.index, b.start, b.end);
+			else if (spec.kind === 'qft' || spec.kind === 'iqft') partialsQft(b, spec.kind, regByName.get(spec.register)!, entry.get(spec.register)!, spec.swaps);
+			else if (spec.kind === 'add' || spec.kind === 'add-const') partialsAdd(b, entry);
+		} else {
+			for (let g = b.start; g < b.end; g++) touched(g, (q) => ev.push(g + 1, q, ExpectKind.unknown, 0, 0n, 0));
+		}
+		applyEffect(b, entry, ok);
+	};
+
+	const partialsQft = (b: BlockInstance, kind: 'qft' | 'iqft', r: PlacedRegister, x: bigint, swaps: boolean) => {
+		// cur: expected content of each qubit of r as (kind, level, num), tracked through swaps.
+		const n = r.size;
+		const curKind = new Uint8Array(n);
+		const curLevel = new Int32Array(n);
+		const curNum: bigint[] = new Array(n).fill(0n);
+		const xb = (i: number) => Number((x >> BigInt(i)) & 1n);
+		for (let i = 0; i < n; i++) {
+			if (kind === 'qft') {
+				curKind[i] = ExpectKind.classical;
+				curLevel[i] = xb(i);
+			} else {
+				const m = fourierLevel(swaps ? 'swapped' : 'unswapped', n, i);
+				curKind[i] = ExpectKind.fourier;
+				curLevel[i] = m;
+				curNum[i] = mod2(x, m);
+			}
+		}
+		const emit = (step: number, i: number) => ev.push(step, r.offset + i, curKind[i], curLevel[i], curNum[i], 0);
+		for (let g = b.start; g < b.end; g++) {
+			const code = c.kinds[g];
+			const j = c.loops[3 * g];
+			const k = c.loops[3 * g + 1];
+			if (code === GateCode.swap) {
+				const a = c.qubitList[c.qubitStart[g]] - r.offset;
+				const bq = c.qubitList[c.qubitStart[g] + 1] - r.offset;
+				for (const arr of [curKind, curLevel] as (Uint8Array | Int32Array)[]) {
+					const t = arr[a];
+					arr[a] = arr[bq];
+					arr[bq] = t;
+				}
+				const t = curNum[a];
+				curNum[a] = curNum[bq];
+				curNum[bq] = t;
+				emit(g + 1, a);
+				emit(g + 1, bq);
+				continue;
+			}
+			const low = mod2(x, j + 1);
+			if (kind === 'qft') {
+				const lo = k < 0 ? j : k; // bits j … lo of x are now on qubit j
+				curKind[j] = ExpectKind.fourier;
+				curLevel[j] = j + 1 - lo;
+				curNum[j] = low >> BigInt(lo);
+			} else if (code === GateCode.h) {
+				curKind[j] = ExpectKind.classical;
+				curLevel[j] = xb(j);
+				curNum[j] = 0n;
+			} else {
+				curKind[j] = ExpectKind.fourier;
+				curLevel[j] = j - k;
+				curNum[j] = low >> BigInt(k + 1);
+			}
+			emit(g + 1, j);
+			if (k >= 0) emit(g + 1, k);
+		}
+	};
+
+	const partialsAdd = (b: BlockInstance, entry: Map<string, bigint | null>) => {
+		const spec = b.spec;
+		if (spec.kind !== 'add' && spec.kind !== 'add-const') return;
+		const tgt = regByName.get(spec.target)!;
+		const base = entry.get(spec.target)!;
+		let ctl = 1n;
+		if (spec.control !== null) {
+			const cb = bitOf(spec.control);
+			if (cb === null) return;
+			ctl = cb;
+		}
+		const addend = spec.kind === 'add' ? entry.get(spec.addend)! : BigInt(spec.value);
+		let g = b.start;
+		while (g < b.end) {
+			const j = c.loops[3 * g];
+			const k = c.loops[3 * g + 1];
+			let e = g + 1;
+			while (e < b.end && c.loops[3 * e] === j && c.loops[3 * e + 1] === k) e++;
+			// Unit [g, e): rotation(s) for target qubit j from addend bit k (add) or the whole constant (add-const).
+			const m = fourierLevel(spec.layout, tgt.size, j);
+			const part = spec.kind === 'add' ? mod2(addend, k + 1) : addend;
+			const v = mod2(base + ctl * (part << BigInt(spec.shift)), m);
+			const seen = new Set<number>();
+			for (let h = g; h < e; h++) touched(h, (q) => seen.add(q));
+			for (const q of seen) {
+				if (q === tgt.offset + j) ev.push(e, q, ExpectKind.fourier, m, v, 0);
+				else stateFromEnv(e, q, 0);
+			}
+			g = e;
+		}
+	};
+
+	processRange(-1, 0, c.gateCount);
+	void valueOf;
+	return ev;
+}
