@@ -1,0 +1,52 @@
+// Promise-based client of the engine worker. A long load can be cancelled: the worker is
+// terminated and a fresh one started, so the page never waits on a runaway computation.
+import type { WorkerRequest, WorkerResponse } from './protocol';
+
+type Pending = { resolve: (r: WorkerResponse) => void; reject: (e: Error) => void };
+type Body<T> = T extends unknown ? Omit<T, 'id'> : never;
+
+export class EngineClient {
+	#worker: Worker | null = null;
+	#next = 1;
+	#pending = new Map<number, Pending>();
+
+	#spawn(): Worker {
+		const w = new Worker(new URL('./engine.worker.ts', import.meta.url), { type: 'module' });
+		w.onmessage = (e: MessageEvent<WorkerResponse>) => {
+			const p = this.#pending.get(e.data.id);
+			if (!p) return;
+			this.#pending.delete(e.data.id);
+			p.resolve(e.data);
+		};
+		w.onerror = (e) => {
+			for (const p of this.#pending.values()) p.reject(new Error(e.message || 'the engine worker failed'));
+			this.#pending.clear();
+		};
+		return w;
+	}
+
+	request(body: Body<WorkerRequest>): Promise<WorkerResponse> {
+		this.#worker ??= this.#spawn();
+		const id = this.#next++;
+		return new Promise((resolve, reject) => {
+			this.#pending.set(id, { resolve, reject });
+			this.#worker!.postMessage({ ...body, id } as WorkerRequest);
+		});
+	}
+
+	get busy(): boolean {
+		return this.#pending.size > 0;
+	}
+
+	/** Stop whatever runs now; pending requests reject with "cancelled". */
+	cancel(): void {
+		this.#worker?.terminate();
+		this.#worker = null;
+		for (const p of this.#pending.values()) p.reject(new Error('cancelled'));
+		this.#pending.clear();
+	}
+
+	destroy(): void {
+		this.cancel();
+	}
+}

@@ -1,0 +1,43 @@
+import { describe, expect, it } from 'vitest';
+import { EngineSession, handleRequest, parseInputValue } from './engine';
+import { makeTemplate, plantedFaultAdder, demoMultiplier } from '$lib/components/workbench/templates';
+
+describe('engine session (what the workbench worker serves)', () => {
+	it('a 3-bit Fourier adder with a = 5, b = 6 ends with b = 3 (11 mod 8; arithmetic)', () => {
+		const s = new EngineSession({ id: 1, type: 'load', doc: makeTemplate('adder'), inputs: { values: { a: '5', b: '6' }, superposed: [] } });
+		const end = s.frame(s.summary.lastStep);
+		expect(end.registerValues).toEqual({ a: '5', b: '3' });
+		// At every block boundary every expected Fourier angle equals the actual one.
+		for (const step of s.summary.boundaries) {
+			const f = s.frame(step);
+			for (const q of f.qubits) if (q.expected !== undefined) expect(q.angle).toBeCloseTo(q.expected, 12);
+			expect(f.diverged).toEqual([]);
+		}
+	});
+
+	it('reads binary and decimal inputs and refuses values that do not fit', () => {
+		expect(parseInputValue('0b101', 'a', 3)).toBe(5n);
+		expect(parseInputValue('12', 'a', 4)).toBe(12n);
+		expect(() => parseInputValue('8', 'a', 3)).toThrow(/does not fit in 3 qubits/);
+		expect(() => parseInputValue('five', 'a', 3)).toThrow(/not a whole number/);
+	});
+
+	it('the demo multiplier computes 13·11 = 143 on 8 product qubits (arithmetic)', () => {
+		const s = new EngineSession({ id: 1, type: 'load', doc: demoMultiplier(), inputs: { values: { a: '13', b: '11' }, superposed: [] } });
+		expect(s.frame(s.summary.lastStep).registerValues.p).toBe('143');
+	});
+
+	it('the planted-fault demo gives a wrong sum for a[1] = 1 and c = 1', () => {
+		const s = new EngineSession({ id: 1, type: 'load', doc: plantedFaultAdder(), inputs: { values: { c: '1', a: '2', b: '0' }, superposed: [] } });
+		const end = s.frame(s.summary.lastStep);
+		expect(end.registerValues.b).not.toBe('2');
+	});
+
+	it('answers a bad document with an error that names the field', () => {
+		const doc = makeTemplate('adder');
+		(doc.body[1] as { addend: string }).addend = 'nope';
+		const out = handleRequest(null, { id: 7, type: 'load', doc, inputs: { values: {}, superposed: [] } });
+		expect(out.response.type).toBe('error');
+		if (out.response.type === 'error') expect(out.response.message).toMatch(/nope/);
+	});
+});

@@ -1,0 +1,245 @@
+// The workbench's engine session: one Run over one circuit and input, and the views the page
+// draws. Pure (no DOM): the worker wraps it, and tests drive it directly in Node.
+import { lowerCircuit, LoweringError } from '$lib/quantum/lower';
+import { Run, type QubitFrame, type TraceFrame } from '$lib/quantum/run';
+import { formatTurns, toTurns, toTurnsSigned, type Angle, type SignedAngle } from '$lib/quantum/angle';
+import { gateAt, gateProvenance, type GateView, type LoweredCircuit } from '$lib/quantum/circuit';
+import type { DialQubit } from '$lib/components/dials/dial-model';
+import type { BreakpointSpec, FrameView, LedgerView, PositionView, RunRequestInputs, RunSummary, SeekKind, WorkerRequest, WorkerResponse } from './protocol';
+
+/** Most ledger rows sent for one qubit; the view says when it was cut. */
+export const MAX_LEDGER_ROWS = 5000;
+/** Most steps a condition breakpoint scans before giving up (keeps a seek bounded). */
+export const MAX_CONDITION_SCAN = 20000;
+
+const fracText = (a: Angle | SignedAngle): string => formatTurns(a).replace(/ turn.*$/, '');
+
+export function parseInputValue(raw: string, name: string, size: number): bigint {
+	const t = raw.trim().replace(/_/g, '');
+	if (t === '') return 0n;
+	let v: bigint;
+	if (/^0b[01]+$/i.test(t)) v = BigInt(t);
+	else if (/^[01]+b$/i.test(t)) v = BigInt('0b' + t.slice(0, -1));
+	else if (/^0x[0-9a-f]+$/i.test(t)) v = BigInt(t);
+	else if (/^\d+$/.test(t)) v = BigInt(t);
+	else throw new RangeError(`${name}: "${raw}" is not a whole number (decimal, or binary as 0b101)`);
+	if (v >= 1n << BigInt(size)) throw new RangeError(`${name}: ${v} does not fit in ${size} qubit${size === 1 ? '' : 's'} (at most ${(1n << BigInt(size)) - 1n})`);
+	return v;
+}
+
+export function describeGate(g: GateView, c: LoweredCircuit): string {
+	const name = (q: number) => {
+		const r = c.registers.find((x) => q >= x.offset && q < x.offset + x.size)!;
+		return `${r.name}[${q - r.offset}]`;
+	};
+	const angle = g.angle ? `(${fracText(g.angle)} turn)` : '';
+	const ctl = g.controls.length ? `${g.controls.map(name).join(', ')} → ` : '';
+	return `${g.kind}${angle} ${ctl}${g.targets.map(name).join(', ')}`;
+}
+
+export class EngineSession {
+	readonly circuit: LoweredCircuit;
+	readonly run: Run;
+	readonly summary: RunSummary;
+	private labels: string[];
+
+	constructor(req: Extract<WorkerRequest, { type: 'load' }>) {
+		const t0 = Date.now();
+		this.circuit = lowerCircuit(req.doc);
+		const c = this.circuit;
+		const values: Record<string, bigint> = {};
+		for (const r of c.registers) {
+			if (req.inputs.superposed.includes(r.name)) continue;
+			const raw = req.inputs.values[r.name];
+			if (raw !== undefined) values[r.name] = parseInputValue(raw, r.name, r.size);
+		}
+		this.run = new Run(c, { values, superposed: req.inputs.superposed }, { keyframeInterval: req.keyframeInterval });
+		this.labels = [];
+		for (const r of c.registers) for (let i = 0; i < r.size; i++) this.labels[r.offset + i] = `${r.name}[${i}]`;
+		const first = this.run.divergences[0];
+		this.summary = {
+			title: c.title,
+			qubitCount: c.qubitCount,
+			gateCount: c.gateCount,
+			lastStep: this.run.lastStep,
+			registers: c.registers.map((r) => ({ name: r.name, size: r.size, offset: r.offset, role: r.role })),
+			blocks: c.blocks.map((b) => ({
+				index: b.index,
+				parent: b.parent,
+				depth: b.depth,
+				itemId: b.itemId,
+				kind: b.kind,
+				label: b.label,
+				start: b.start,
+				end: b.end,
+				effect: b.effect?.text ?? null
+			})),
+			boundaries: this.run.blockBoundaries(),
+			firstDivergence: first ? { step: first.step, qubit: first.qubit, label: this.labels[first.qubit], message: first.message } : null,
+			divergenceCount: this.run.divergences.length,
+			handover: this.run.handover,
+			stopped: this.run.stopped,
+			warnings: this.run.expectations.warnings.map((w) => w.message),
+			keyframeChecksums: this.run.keyframeChecksums,
+			millis: Date.now() - t0
+		};
+	}
+
+	position(step: number): PositionView {
+		const c = this.circuit;
+		if (step === 0 || c.gateCount === 0) return { step, gateIndex: null, gateText: null, blockPath: [], itemId: null, loop: {}, source: null };
+		const g = step - 1;
+		const p = gateProvenance(c, g);
+		const path: PositionView['blockPath'] = [];
+		for (let b = c.blockOf[g]; b >= 0; b = c.blocks[b].parent) path.unshift({ index: b, label: c.blocks[b].label, kind: c.blocks[b].kind });
+		return { step, gateIndex: g, gateText: describeGate(gateAt(c, g), c), blockPath: path, itemId: p.itemId, loop: p.loop, source: p.source ?? null };
+	}
+
+	frame(step: number): FrameView {
+		const s = Math.max(0, Math.min(step, this.run.lastStep));
+		const f = this.run.frameAt(s);
+		return toFrameView(f, this.position(s));
+	}
+
+	ledger(qubit: number): LedgerView {
+		const c = this.circuit;
+		const { entries, firstParted } = this.run.qubitLedger(qubit);
+		const rows = entries.slice(0, MAX_LEDGER_ROWS).map((e) => {
+			const b = c.blockOf[e.gate];
+			return {
+				step: e.step,
+				gate: e.gate,
+				gateText: describeGate(gateAt(c, e.gate), c),
+				block: b >= 0 ? c.blocks[b].label : null,
+				kind: e.kind,
+				amount: e.amount ? fracText(e.amount) : null,
+				total: e.total ? fracText(e.total) : null,
+				expected: e.expected ? fracText(e.expected) : null,
+				parted: e.parted
+			};
+		});
+		return { qubit, label: this.labels[qubit], rows, firstParted, truncated: entries.length > MAX_LEDGER_ROWS };
+	}
+
+	seek(from: number, kind: SeekKind, breakpoints: BreakpointSpec[] = []): { step: number; reason: string | null; breakpointId: string | null } {
+		const r = this.run;
+		const last = r.lastStep;
+		switch (kind) {
+			case 'into':
+				return { step: r.stepInto(from), reason: null, breakpointId: null };
+			case 'back':
+				return { step: Math.max(0, from - 1), reason: null, breakpointId: null };
+			case 'over':
+				return { step: r.stepOver(from), reason: null, breakpointId: null };
+			case 'out':
+				return { step: r.stepOut(from), reason: null, breakpointId: null };
+			case 'next-boundary':
+				return { step: Math.min(r.nextBoundary(from), last), reason: null, breakpointId: null };
+			case 'prev-boundary':
+				return { step: r.previousBoundary(from), reason: null, breakpointId: null };
+			case 'start':
+				return { step: 0, reason: null, breakpointId: null };
+			case 'end':
+				return { step: last, reason: null, breakpointId: null };
+			case 'divergence': {
+				const d = r.divergences.find((x) => x.step > from);
+				return d
+					? { step: d.step, reason: `${this.labels[d.qubit]}: ${d.message}`, breakpointId: null }
+					: { step: last, reason: 'no divergence after this step', breakpointId: null };
+			}
+			case 'breakpoint':
+				return this.nextBreakpoint(from, breakpoints);
+		}
+	}
+
+	private nextBreakpoint(from: number, bps: BreakpointSpec[]) {
+		const r = this.run;
+		const c = this.circuit;
+		let best: { step: number; reason: string; breakpointId: string } | null = null;
+		const offer = (step: number, reason: string, id: string) => {
+			if (step > from && step <= r.lastStep && (!best || step < best.step)) best = { step, reason, breakpointId: id };
+		};
+		for (const bp of bps) {
+			if (bp.kind === 'gate') offer(bp.gate, `before gate ${bp.gate}: ${describeGate(gateAt(c, Math.min(bp.gate, c.gateCount - 1)), c)}`, bp.id);
+			else if (bp.kind === 'block') {
+				for (const b of c.blocks) if (b.itemId === bp.itemId) offer(bp.at === 'start' ? b.start : b.end, `${bp.at} of ${b.label}`, bp.id);
+			} else if (bp.kind === 'divergence') {
+				const d = r.divergences.find(
+					(x) => x.step > from && (bp.qubit === null || x.qubit === bp.qubit) && (x.divergence === null || Math.abs(toTurnsSigned(x.divergence)) > bp.tolerance)
+				);
+				if (d) offer(d.step, `${this.labels[d.qubit]} diverged: ${d.message}`, bp.id);
+			} else if (bp.kind === 'entangled') {
+				const h = r.handover;
+				if (!h) continue;
+				const start = Math.max(from + 1, h.step);
+				const stop = Math.min(r.lastStep, start + MAX_CONDITION_SCAN);
+				for (let s = start; s <= stop; s++) {
+					if (best && s >= (best as { step: number }).step) break;
+					const f = r.frameAt(s);
+					const hit = f.qubits.find((q) => q.state.kind === 'mixed' && q.state.length < 1 - 1e-9 && (bp.qubit === null || q.qubit === bp.qubit));
+					if (hit) {
+						offer(s, `${this.labels[hit.qubit]} became entangled`, bp.id);
+						break;
+					}
+				}
+			}
+		}
+		return best ?? { step: r.lastStep, reason: 'no breakpoint after this step', breakpointId: null };
+	}
+}
+
+function toDial(q: QubitFrame): DialQubit {
+	const base = { qubit: q.qubit, register: q.register, index: q.index };
+	const ex = q.expected;
+	const expected = ex && ex.kind === 'fourier' && q.fresh ? { expected: toTurns(ex.angle), expectedText: fracText(ex.angle), level: ex.level } : {};
+	const div = q.divergence && q.fresh ? { divergence: toTurnsSigned(q.divergence), divergenceText: fracText(q.divergence) } : {};
+	const s = q.state;
+	if (s.kind === 'classical') {
+		const wrongBit = q.fresh && ex?.kind === 'classical' && ex.bit !== s.bit;
+		return { ...base, kind: 'classical', bit: s.bit, ...(wrongBit ? { divergence: 0.5, divergenceText: `expected |${ex.bit}⟩` } : {}) };
+	}
+	if (s.kind === 'fourier') {
+		const level = s.angle.exact ? Math.max(1, s.angle.exp) : undefined;
+		return { ...base, kind: 'fourier', level, angle: toTurns(s.angle), angleText: fracText(s.angle), coherence: 1, ...expected, ...div };
+	}
+	const [x, y] = s.bloch;
+	const len = Math.hypot(x, y);
+	// ⟨X⟩ = cos φ·len, ⟨Y⟩ = sin φ·len for a|0⟩ + b e^{iφ}|1⟩, so φ = atan2(y, x).
+	const turns = len > 1e-12 ? (((Math.atan2(y, x) / (2 * Math.PI)) % 1) + 1) % 1 : 0;
+	return { ...base, kind: 'mixed', angle: turns, angleText: turns.toFixed(5), coherence: len, ...expected, ...div };
+}
+
+export function toFrameView(f: TraceFrame, position: PositionView): FrameView {
+	const qubits = f.qubits.map(toDial);
+	const registerValues: Record<string, string | null> = {};
+	for (const [k, v] of Object.entries(f.registerValues)) registerValues[k] = v === null ? null : v.toString();
+	return {
+		step: f.step,
+		engine: f.engine,
+		handover: f.handover,
+		position,
+		qubits,
+		registerValues,
+		distributions: f.distributions,
+		checksum: f.checksum,
+		diverged: f.qubits.filter((q) => q.fresh && q.matches === false).map((q) => q.qubit)
+	};
+}
+
+/** Serve one request against the current session (the worker's message handler). */
+export function handleRequest(session: EngineSession | null, req: WorkerRequest): { session: EngineSession | null; response: WorkerResponse } {
+	try {
+		if (req.type === 'load') {
+			const s = new EngineSession(req);
+			return { session: s, response: { id: req.id, type: 'loaded', summary: s.summary, frame: s.frame(0) } };
+		}
+		if (!session) return { session, response: { id: req.id, type: 'error', message: 'Nothing is loaded yet.' } };
+		if (req.type === 'frame') return { session, response: { id: req.id, type: 'frame', frame: session.frame(req.step) } };
+		if (req.type === 'ledger') return { session, response: { id: req.id, type: 'ledger', ledger: session.ledger(req.qubit) } };
+		const r = session.seek(req.from, req.kind, req.breakpoints);
+		return { session, response: { id: req.id, type: 'seek', ...r } };
+	} catch (e) {
+		const path = e instanceof LoweringError ? e.path : undefined;
+		return { session: req.type === 'load' ? null : session, response: { id: req.id, type: 'error', message: e instanceof Error ? e.message : String(e), path } };
+	}
+}

@@ -1,0 +1,12 @@
+/// <reference lib="webworker" />
+// The workbench's engine worker: all lowering and simulation happen here, off the page's thread.
+import { handleRequest, type EngineSession } from './engine';
+import type { WorkerRequest } from './protocol';
+
+let session: EngineSession | null = null;
+
+self.onmessage = (e: MessageEvent<WorkerRequest>) => {
+	const out = handleRequest(session, e.data);
+	session = out.session;
+	(self as unknown as Worker).postMessage(out.response);
+};
