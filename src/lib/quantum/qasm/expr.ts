@@ -84,7 +84,8 @@ export function numToInteger(x: Num): bigint | null {
 
 const f = (v: number): Num => ({ exact: false, v });
 
-function add(x: Num, y: Num, sign: 1n | -1n): Num {
+/** x + sign·y (exact when both are and the π powers agree). */
+export function add(x: Num, y: Num, sign: 1n | -1n): Num {
 	if (x.exact && y.exact) {
 		if (y.n === 0n) return x;
 		if (x.n === 0n) return exactNum(sign * y.n, y.d, y.pi);
@@ -92,14 +93,16 @@ function add(x: Num, y: Num, sign: 1n | -1n): Num {
 	}
 	return f(numToFloat(x) + Number(sign) * numToFloat(y));
 }
-function mul(x: Num, y: Num): Num {
+/** x·y. */
+export function mul(x: Num, y: Num): Num {
 	if (x.exact && y.exact) {
 		if (x.n === 0n || y.n === 0n) return exactNum(0n);
 		if (x.pi + y.pi <= 1) return exactNum(x.n * y.n, x.d * y.d, (x.pi + y.pi) as 0 | 1);
 	}
 	return f(numToFloat(x) * numToFloat(y));
 }
-function div(x: Num, y: Num): Num | null {
+/** x/y, null when y = 0. */
+export function div(x: Num, y: Num): Num | null {
 	if (y.exact ? y.n === 0n : y.v === 0) return null;
 	if (x.exact && y.exact) {
 		if (x.n === 0n) return exactNum(0n);
