@@ -11,7 +11,7 @@ import { CIRCUIT_FORMAT, CIRCUIT_VERSION, type CircuitDocument, type GateItem, t
 import type { Angle } from '../angle.js';
 import { lexQasm, QasmError, type Token } from './lexer.js';
 import { add, evaluateTokens, exactNum, mul, numToAngle, numToFloat, numToInteger, type Num, type NumScope } from './expr.js';
-import { matDagger, matMul, matPhase, matSqrt, MATRICES, rzMatrix, ryMatrix, u3Matrix, zyz } from './matrix.js';
+import { matDagger, matMul, matSqrt, MATRICES, rzMatrix, ryMatrix, u3Matrix, zyz } from './matrix.js';
 
 /** A non-fatal note about the file (skipped statement, lenient reading), with its position. */
 export interface QasmWarning {
@@ -756,7 +756,7 @@ class Reader {
 	// ------------------------------------------------------------------------------------------
 	// Mapping ops to document gate items
 
-	private push(gate: GateItem['gate'], qubits: number[], o: Op, angle?: Num | Angle, matrix?: Matrix2): void {
+	private push(gate: GateItem['gate'], qubits: number[], o: Op, angle?: Num, matrix?: Matrix2): void {
 		if (this.items.length >= this.limits.maxGates) this.err(o.origin.call, `more than ${this.limits.maxGates} gates after expanding gate definitions (limit)`);
 		const item: GateItem = {
 			id: `g${this.items.length + 1}`,
@@ -769,7 +769,7 @@ class Reader {
 			const d = o.origin.definitions;
 			item.label = `${o.origin.qasm} → ${d.map((x) => `${x.gate}@${x.line}:${x.column}`).join(' → ')}`.slice(0, 200);
 		}
-		if (angle !== undefined) item.angle = angleText('exact' in angle && 'num' in angle ? angle : 'turns' in angle ? angle : numToAngle(angle as Num));
+		if (angle !== undefined) item.angle = angleText(numToAngle(angle));
 		if (matrix) item.matrix = matrix;
 		this.items.push(item);
 		this.origins.push(o.origin);
@@ -875,9 +875,6 @@ export function angleText(a: Angle): string {
 	if (a.num === 0n) return '0 turn';
 	return `${a.num}/2^${a.exp} turn`;
 }
-
-/** Unused-import guard for matPhase (kept for callers composing matrices). */
-export const _matPhase = matPhase;
 
 /**
  * Read an OpenQASM 2.0 or 3.0 file into a circuit document. Throws {@link QasmError}
