@@ -46,7 +46,7 @@ async function fromCookie(event: Parameters<Handle>[0]['event']): Promise<void> 
 
 /** Errors SvelteKit itself produces under /api (no such route, wrong method) get our JSON shape too. */
 async function asApiError(res: Response): Promise<Response> {
-	let message = res.statusText || 'Request failed.';
+	let message = res.status === 404 ? 'No such API route.' : res.statusText || 'The request failed.';
 	if ((res.headers.get('content-type') ?? '').includes('application/json')) {
 		const body = (await res.clone().json().catch(() => null)) as { error?: unknown; message?: string } | null;
 		if (body && typeof body.error === 'object') return res;

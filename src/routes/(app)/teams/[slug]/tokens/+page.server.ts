@@ -31,9 +31,9 @@ export const actions: Actions = {
 		if (!atLeast(role, form.data.role)) {
 			return formFailure(400, 'A token cannot have more rights than you have yourself.', form.raw, 'role');
 		}
-		const { secret } = await createApiToken(db, { teamId: team.id, userId: user.id, name: form.data.name, role: form.data.role });
+		const { id, secret } = await createApiToken(db, { teamId: team.id, userId: user.id, name: form.data.name, role: form.data.role });
 		// The only time the secret leaves the server.
-		return { created: { name: form.data.name, role: form.data.role, secret } };
+		return { created: { id, name: form.data.name, role: form.data.role, secret } };
 	},
 	revoke: async ({ locals, params, request }) => {
 		const { team, role, user } = await requireTeamRole(locals, params.slug, 'team.view');

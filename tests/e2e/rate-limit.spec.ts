@@ -1,0 +1,48 @@
+import { expect, test } from '@playwright/test';
+import { formHeaders, freshEmail, newContext, PASSWORD, signUp } from './support/accounts';
+
+test('sign-in: five wrong passwords, then the account is held back with a clear wait time', async ({ page }) => {
+	const email = freshEmail('guessed');
+	const c = await newContext();
+	await signUp(c, email, 'Lin Baptiste');
+	await c.dispose();
+
+	await page.goto('/signin');
+	for (let i = 0; i < 5; i++) {
+		await page.getByLabel('E-mail').fill(email);
+		await page.getByLabel('Password').fill(`wrong-guess-${i}`);
+		await page.getByRole('button', { name: 'Sign in' }).click();
+		// Generic: the same words as for an address with no account.
+		await expect(page.getByRole('alert')).toHaveText('That e-mail and password do not match an account.');
+	}
+	// Now even the right password is refused until the window passes.
+	await page.getByLabel('E-mail').fill(email);
+	await page.getByLabel('Password').fill(PASSWORD);
+	await page.getByRole('button', { name: 'Sign in' }).click();
+	await expect(page.getByRole('alert')).toHaveText(/^Too many attempts; try again in \d+ s\.$/);
+	await expect(page).toHaveURL(/\/signin/);
+
+	// The same over a plain post: 429 with Retry-After.
+	const raw = await newContext();
+	const res = await raw.post('/signin', { form: { email, password: PASSWORD }, headers: formHeaders });
+	expect(res.status()).toBe(429);
+	expect(Number(res.headers()['retry-after'])).toBeGreaterThan(0);
+	await raw.dispose();
+});
+
+test('an address with no account gets the same generic answer', async ({ page }) => {
+	await page.goto('/signin');
+	await page.getByLabel('E-mail').fill(freshEmail('ghost'));
+	await page.getByLabel('Password').fill('whatever-it-is-9');
+	await page.getByRole('button', { name: 'Sign in' }).click();
+	await expect(page.getByRole('alert')).toHaveText('That e-mail and password do not match an account.');
+});
+
+test('reset mails: three per hour per address, then 429', async () => {
+	const email = freshEmail('resetter');
+	const c = await newContext();
+	const statuses: number[] = [];
+	for (let i = 0; i < 4; i++) statuses.push((await c.post('/reset', { form: { email }, headers: formHeaders })).status());
+	expect(statuses).toEqual([200, 200, 200, 429]);
+	await c.dispose();
+});

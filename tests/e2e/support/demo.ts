@@ -1,0 +1,16 @@
+import { readFileSync } from 'node:fs';
+import { expect, type Page } from '@playwright/test';
+
+export type DemoAccount = { email: string; password: string; role: string; name: string };
+/** The invented demo people the seeds put into "Halvorsen Phase Lab". */
+export const demo: Record<string, DemoAccount> = Object.fromEntries(
+	(JSON.parse(readFileSync('seeds/demo-accounts.json', 'utf8')) as DemoAccount[]).map((a) => [a.role, a])
+);
+
+export async function signInInBrowser(page: Page, email: string, password: string): Promise<void> {
+	await page.goto('/signin');
+	await page.getByLabel('E-mail').fill(email);
+	await page.getByLabel('Password').fill(password);
+	await page.getByRole('button', { name: 'Sign in' }).click();
+	await expect(page).not.toHaveURL(/\/signin/);
+}
