@@ -63,12 +63,10 @@ export function dyadic(num: bigint, exp: number): DyadicAngle {
 	let n = num % mod;
 	if (n < 0n) n += mod;
 	if (n === 0n) return ZERO_ANGLE;
-	let e = exp;
-	while ((n & 1n) === 0n) {
-		n >>= 1n;
-		e--;
-	}
-	return { exact: true, num: n, exp: e };
+	// strip trailing zero bits in one step: n & −n isolates the lowest set bit
+	const tz = (n & -n).toString(2).length - 1;
+	if (tz > 0) n >>= BigInt(tz);
+	return { exact: true, num: n, exp: exp - tz };
 }
 
 /** Inexact angle from a float number of turns, normalised to [0, 1). */

@@ -477,23 +477,38 @@ export function lowerCircuit(input: CircuitDocument | unknown, options: Lowering
 		sink.close(b);
 	};
 
+	// Angle-table ids of θ, θ/2, −θ/2, θ/4, −θ/4 per θ: the multiplier emits ~n³ ccp with few distinct angles.
+	const ccpAngles = new Map<string, number[]>();
+	const ccpIds = (theta: Angle): number[] => {
+		const key = angleKey(theta);
+		let ids = ccpAngles.get(key);
+		if (!ids) {
+			const h = halveAngle(theta);
+			const q = halveAngle(theta, 2);
+			ids = [sink.angleId(theta), sink.angleId(h), sink.angleId(negateAngle(h)), sink.angleId(q), sink.angleId(negateAngle(q))];
+			ccpAngles.set(key, ids);
+		}
+		return ids;
+	};
+	const unitAngles: Angle[] = [];
+	const unitAngle = (e: number): Angle => (unitAngles[e] ??= dyadic(1n, e));
+
 	/** Doubly controlled phase θ (turns) on (c1, c2, t); see the CcpLowering docs in circuit.ts. */
 	const emitCcp = (c1: number, c2: number, t: number, theta: Angle, lowering: CcpLowering, anc: number | null): void => {
+		const [full, half, mhalf, q, mq] = ccpIds(theta);
 		switch (lowering) {
 			case 'native':
-				sink.g3(GateCode.mcp, c1, c2, t, sink.angleId(theta));
+				sink.g3(GateCode.mcp, c1, c2, t, full);
 				return;
 			case 'ancilla': {
 				const a = anc!;
 				sink.g3(GateCode.ccx, c1, c2, a);
-				sink.g2(GateCode.cp, 1, a, t, sink.angleId(theta));
+				sink.g2(GateCode.cp, 1, a, t, full);
 				sink.g3(GateCode.ccx, c1, c2, a);
 				return;
 			}
 			case 'no-ancilla': {
 				// V = p(θ/2): phase θ/2·(c2 − (c1⊕c2) + c1)·t = θ·c1·c2·t.
-				const half = sink.angleId(halveAngle(theta));
-				const mhalf = sink.angleId(negateAngle(halveAngle(theta)));
 				sink.g2(GateCode.cp, 1, c2, t, half);
 				sink.g2(GateCode.cx, 1, c1, c2);
 				sink.g2(GateCode.cp, 1, c2, t, mhalf);
@@ -504,8 +519,6 @@ export function lowerCircuit(input: CircuitDocument | unknown, options: Lowering
 			case 'quarter': {
 				// 4·x1x2x3 = x1 + x2 + x3 − x1⊕x3 + x1⊕x2⊕x3 − x2⊕x3 − x1⊕x2: parities built with
 				// CNOTs whose controls are c1/c2, so classical controls keep the ledger exact.
-				const q = sink.angleId(halveAngle(theta, 2));
-				const mq = sink.angleId(negateAngle(halveAngle(theta, 2)));
 				sink.g1(GateCode.p, c1, q);
 				sink.g1(GateCode.p, c2, q);
 				sink.g1(GateCode.p, t, q);
@@ -563,7 +576,7 @@ export function lowerCircuit(input: CircuitDocument | unknown, options: Lowering
 				const e = m - k - shift;
 				if (e <= 0) break;
 				sink.l1 = k;
-				const ang = dyadic(1n, e);
+				const ang = unitAngle(e);
 				if (control === null) sink.g2(GateCode.cp, 1, src.offset + k, tgt.offset + j, sink.angleId(ang));
 				else emitCcp(control, src.offset + k, tgt.offset + j, ang, lowering, anc);
 			}

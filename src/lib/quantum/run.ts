@@ -337,6 +337,7 @@ export class Run {
 				if (ev.kind[e] === ExpectKind.unknown) continue;
 				if (amp && n > 16 && !ev.boundary[e]) continue; // partial checks would cost 2^n each
 				const q = ev.qubit[e];
+				if (ledger && this.ledgerMatches(ledger, e)) continue; // fast exact path, no allocation
 				let actual: QubitState;
 				if (ledger) actual = this.ledgerQubit(ledger, q);
 				else {
@@ -362,7 +363,7 @@ export class Run {
 		for (let step = 0; ; step++) {
 			if (ledger && step % K === 0) {
 				this.ledgerKeys.push(cloneLedgerState(ledger));
-				this.keyframeChecksums.push({ step, checksum: this.checksumOf('ledger', step, this.statesFromLedger(ledger)) });
+				this.keyframeChecksums.push({ step, checksum: fnv1a(this.ledgerCanonicalText(ledger, step)) });
 			} else if (amp && (lastAmpKey < 0 || step - lastAmpKey >= ampInterval)) {
 				this.ampKeys.push({ step, state: cloneState(amp) });
 				lastAmpKey = step;
@@ -420,6 +421,30 @@ export class Run {
 		const y = -2 * (ai * br - ar * bi);
 		const z = ar * ar + ai * ai - br * br - bi * bi;
 		return classifyBloch(x, y, z, this.tol);
+	}
+
+	/** Exact ledger check of expectation event e without building frame objects. */
+	private ledgerMatches(s: LedgerState, e: number): boolean {
+		const ev = this.expectations;
+		const q = ev.qubit[e];
+		if (ev.kind[e] === ExpectKind.classical) return s.kind[q] === LedgerKind.classical && s.bit[q] === ev.level[e];
+		const t = this.ledgerTables;
+		const level = ev.level[e];
+		if (s.kind[q] !== LedgerKind.fourier || s.inexact[q] || level > t.exp) return false;
+		return s.phase[q] === ((ev.num[e] << BigInt(t.exp - level)) & t.mask);
+	}
+
+	/** Same text as canonicalFrameText(…, statesFromLedger(s)) for exact/classical qubits, built directly. */
+	private ledgerCanonicalText(s: LedgerState, step: number): string {
+		const parts: string[] = [];
+		for (let q = 0; q < s.qubitCount; q++) {
+			if (s.kind[q] === LedgerKind.classical) parts.push(s.bit[q] ? 'c1' : 'c0');
+			else if (s.kind[q] === LedgerKind.fourier && !s.inexact[q]) {
+				const a = dyadic(s.phase[q], this.ledgerTables.exp);
+				parts.push(`f${a.num}/${a.exp}`);
+			} else return canonicalFrameText('ledger', step, this.statesFromLedger(s));
+		}
+		return `ledger|${step}|${parts.join(';')}`;
 	}
 
 	private statesFromLedger(s: LedgerState): QubitState[] {
