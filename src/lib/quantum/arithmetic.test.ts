@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { lowerCircuit } from './lower.js';
 import { Run } from './run.js';
-import { applyLoweredGate, buildGateTables, createState, type StateVector } from './amplitudes.js';
+import { applyLoweredGate, buildGateTables, type StateVector } from './amplitudes.js';
 import { applyLedgerGate, buildLedgerTables, createLedgerState, ledgerToAmplitudes } from './ledger.js';
 import type { BodyItem, CcpLowering, CircuitDocument, LoweredCircuit, RegisterSpec } from './circuit.js';
 
@@ -107,7 +107,8 @@ describe('Fourier adders, exhaustive', () => {
 				for (let b = 0; b < 2 ** n; b++) check(c, { b }, { b: (b + v) % 2 ** n }, n <= LOCKSTEP_ALL_UP_TO || (v % 7 === 3 && b % 5 === 1));
 			}
 		});
-		for (const shift of [0, 1, 2]) {
+		// n = 5 runs shifts 0 and 2 only (shift 1 is covered for n ≤ 4) to keep the suite within seconds.
+		for (const shift of n === 5 ? [0, 2] : [0, 1, 2]) {
 			if (shift >= n) continue;
 			it(`shifted b += 2^${shift}·a, n = ${n}`, () => {
 				const c = lowerCircuit(doc([{ name: 'a', size: n }, { name: 'b', size: n }], [
@@ -172,5 +173,3 @@ describe('multiplier controlled-rotation count', () => {
 		});
 });
 
-// keep createState referenced for the type import above
-void createState;

@@ -195,6 +195,8 @@ interface GateCall {
 	qargs: { name: string; index: Token[] | null; tok: Token }[];
 }
 interface GateDef {
+	/** Lower bound on the gate items one call produces (for an early size check). */
+	leaves: number;
 	name: string;
 	params: string[];
 	qubits: string[];
@@ -216,6 +218,7 @@ class Reader {
 	readonly consts: NumScope = new Map();
 	readonly defs = new Map<string, GateDef>();
 	private qubitCount = 0;
+	private budget = 0;
 	readonly items: GateItem[] = [];
 	readonly origins: GateOrigin[] = [];
 	private flatToRef: QubitRef[] = [];
@@ -615,7 +618,9 @@ class Reader {
 			body.push(call);
 		}
 		this.next();
-		this.defs.set(name, { name, params, qubits, body, tok: nameTok });
+		let leaves = 0;
+		for (const c of body) leaves += this.leafBound(c);
+		this.defs.set(name, { name, params, qubits, body, tok: nameTok, leaves });
 	}
 
 	private resolveGate(call: GateCall, defining: string | null): { params: number; qubits: number; def?: GateDef; builtin?: Builtin } {
@@ -660,8 +665,16 @@ class Reader {
 		return need;
 	}
 
+	private leafBound(call: GateCall): number {
+		const d = this.defs.get(call.name);
+		if (d) return d.leaves;
+		return call.name === 'id' || call.name === 'gphase' ? 0 : 1;
+	}
+
 	private topLevelCall(call: GateCall): void {
 		this.checkCall(call, null);
+		if (this.leafBound(call) + this.items.length > this.limits.maxGates)
+			this.err(call.nameTok, `more than ${this.limits.maxGates} gates after expanding gate definitions (limit)`);
 		// Resolve each argument to a list of flat qubits (a whole register broadcasts).
 		const lists: number[][] = [];
 		let width = 1;
@@ -700,6 +713,7 @@ class Reader {
 			});
 			const origin: GateOrigin = { qasm: call.name, call: { line: call.nameTok.line, column: (call.mods[0]?.tok ?? call.nameTok).column }, definitions: [] };
 			if (call.mods.length) origin.call.column = call.mods[0].tok.column;
+			this.budget = 0;
 			const ops = this.expand(call, params, qs, origin, 0, this.consts);
 			for (const o of ops) this.emit(o, call);
 		}
@@ -736,7 +750,12 @@ class Reader {
 			return out;
 		}
 		const g = this.resolveGate(call, null);
-		if (g.builtin) return g.builtin.build(params, qs, origin);
+		if (g.builtin) {
+			// Count leaf ops as they are made, so an exploding chain of definitions stops early.
+			this.budget++;
+			if (this.budget + this.items.length > this.limits.maxGates) this.err(origin.call, `more than ${this.limits.maxGates} gates after expanding gate definitions (limit)`);
+			return g.builtin.build(params, qs, origin);
+		}
 		const def = g.def!;
 		const scope: NumScope = new Map(this.consts);
 		def.params.forEach((p, i) => scope.set(p, params[i]));
