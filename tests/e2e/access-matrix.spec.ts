@@ -1,5 +1,5 @@
 import { expect, test, type APIRequestContext } from '@playwright/test';
-import { formHeaders, freshEmail, newContext, pathOf, signIn, signUp, waitForMail } from './support/accounts';
+import { formHeaders, freshEmail, newContext, pathOf, signUp, waitForMail } from './support/accounts';
 
 // Every protected action and endpoint of issue 3 against every kind of caller, over HTTP against
 // the built app (hooks, CSRF check, guard, actions and endpoints all in the path). Each cell is
