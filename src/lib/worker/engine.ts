@@ -4,28 +4,19 @@ import { lowerCircuit, LoweringError } from '$lib/quantum/lower';
 import { Run, type QubitFrame, type TraceFrame } from '$lib/quantum/run';
 import { formatTurns, toTurns, toTurnsSigned, type Angle, type SignedAngle } from '$lib/quantum/angle';
 import { gateAt, gateProvenance, type GateView, type LoweredCircuit } from '$lib/quantum/circuit';
+import { parseInputValue } from './inputs';
 import type { DialQubit } from '$lib/components/dials/dial-model';
-import type { BreakpointSpec, FrameView, LedgerView, PositionView, RunRequestInputs, RunSummary, SeekKind, WorkerRequest, WorkerResponse } from './protocol';
+import type { BreakpointSpec, FrameView, GateRow, LedgerView, PositionView, RunSummary, SeekKind, WorkerRequest, WorkerResponse } from './protocol';
 
 /** Most ledger rows sent for one qubit; the view says when it was cut. */
 export const MAX_LEDGER_ROWS = 5000;
 /** Most steps a condition breakpoint scans before giving up (keeps a seek bounded). */
 export const MAX_CONDITION_SCAN = 20000;
+/** Most gate rows sent when a block is expanded. */
+export const MAX_GATE_ROWS = 500;
 
 const fracText = (a: Angle | SignedAngle): string => formatTurns(a).replace(/ turn.*$/, '');
 
-export function parseInputValue(raw: string, name: string, size: number): bigint {
-	const t = raw.trim().replace(/_/g, '');
-	if (t === '') return 0n;
-	let v: bigint;
-	if (/^0b[01]+$/i.test(t)) v = BigInt(t);
-	else if (/^[01]+b$/i.test(t)) v = BigInt('0b' + t.slice(0, -1));
-	else if (/^0x[0-9a-f]+$/i.test(t)) v = BigInt(t);
-	else if (/^\d+$/.test(t)) v = BigInt(t);
-	else throw new RangeError(`${name}: "${raw}" is not a whole number (decimal, or binary as 0b101)`);
-	if (v >= 1n << BigInt(size)) throw new RangeError(`${name}: ${v} does not fit in ${size} qubit${size === 1 ? '' : 's'} (at most ${(1n << BigInt(size)) - 1n})`);
-	return v;
-}
 
 export function describeGate(g: GateView, c: LoweredCircuit): string {
 	const name = (q: number) => {
@@ -36,6 +27,8 @@ export function describeGate(g: GateView, c: LoweredCircuit): string {
 	const ctl = g.controls.length ? `${g.controls.map(name).join(', ')} → ` : '';
 	return `${g.kind}${angle} ${ctl}${g.targets.map(name).join(', ')}`;
 }
+
+export { parseInputValue };
 
 export class EngineSession {
 	readonly circuit: LoweredCircuit;
@@ -99,6 +92,16 @@ export class EngineSession {
 		const s = Math.max(0, Math.min(step, this.run.lastStep));
 		const f = this.run.frameAt(s);
 		return toFrameView(f, this.position(s));
+	}
+
+	/** Gate rows [from, to) for an expanded block, at most MAX_GATE_ROWS. */
+	gates(from: number, to: number): { gates: GateRow[]; truncated: boolean } {
+		const c = this.circuit;
+		const a = Math.max(0, from);
+		const b = Math.min(c.gateCount, to, a + MAX_GATE_ROWS);
+		const gates: GateRow[] = [];
+		for (let g = a; g < b; g++) gates.push({ index: g, text: describeGate(gateAt(c, g), c), line: gateProvenance(c, g).source?.line ?? null });
+		return { gates, truncated: b < Math.min(c.gateCount, to) };
 	}
 
 	ledger(qubit: number): LedgerView {
@@ -235,6 +238,7 @@ export function handleRequest(session: EngineSession | null, req: WorkerRequest)
 		}
 		if (!session) return { session, response: { id: req.id, type: 'error', message: 'Nothing is loaded yet.' } };
 		if (req.type === 'frame') return { session, response: { id: req.id, type: 'frame', frame: session.frame(req.step) } };
+		if (req.type === 'gates') return { session, response: { id: req.id, type: 'gates', ...session.gates(req.from, req.to) } };
 		if (req.type === 'ledger') return { session, response: { id: req.id, type: 'ledger', ledger: session.ledger(req.qubit) } };
 		const r = session.seek(req.from, req.kind, req.breakpoints);
 		return { session, response: { id: req.id, type: 'seek', ...r } };

@@ -23,7 +23,8 @@ export type WorkerRequest =
 	| { id: number; type: 'load'; doc: CircuitDocument; inputs: RunRequestInputs; keyframeInterval?: number }
 	| { id: number; type: 'frame'; step: number }
 	| { id: number; type: 'ledger'; qubit: number; step: number }
-	| { id: number; type: 'seek'; from: number; kind: SeekKind; breakpoints?: BreakpointSpec[] };
+	| { id: number; type: 'seek'; from: number; kind: SeekKind; breakpoints?: BreakpointSpec[] }
+	| { id: number; type: 'gates'; from: number; to: number };
 
 export interface BlockView {
 	index: number;
@@ -104,4 +105,11 @@ export type WorkerResponse =
 	| { id: number; type: 'frame'; frame: FrameView }
 	| { id: number; type: 'ledger'; ledger: LedgerView }
 	| { id: number; type: 'seek'; step: number; reason: string | null; breakpointId: string | null }
+	| { id: number; type: 'gates'; gates: GateRow[]; truncated: boolean }
 	| { id: number; type: 'error'; message: string; path?: string };
+
+export interface GateRow {
+	index: number;
+	text: string;
+	line: number | null;
+}

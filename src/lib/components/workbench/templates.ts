@@ -1,6 +1,6 @@
 // Starting points for a new circuit, and the demo circuits of the seeds (invented scenario).
 // Qubit order: index 0 is the least significant bit. Angles are radian expressions.
-import { CIRCUIT_FORMAT, CIRCUIT_VERSION, type BodyItem, type CircuitDocument } from '$lib/quantum/circuit';
+import { CIRCUIT_FORMAT, CIRCUIT_VERSION, type BodyItem, type CircuitDocument } from '../../quantum/circuit';
 
 export type TemplateName = 'blank' | 'adder' | 'multiplier';
 
