@@ -4,7 +4,7 @@ import { parseCircuitDocument, serializeCircuitDocument } from './schema.js';
 import { gateAt, gateProvenance, GateCode, type CircuitDocument } from './circuit.js';
 
 // Invented scenario: an inventory counter for a warehouse robot fleet.
-const doc = (body: CircuitDocument['body'], registers = [{ name: 'a', size: 3 }, { name: 'b', size: 3 }], blocks?: CircuitDocument['blocks']): CircuitDocument => ({
+const doc = (body: CircuitDocument['body'], registers: CircuitDocument['registers'] = [{ name: 'a', size: 3 }, { name: 'b', size: 3 }], blocks?: CircuitDocument['blocks']): CircuitDocument => ({
 	format: 'phasewright.circuit',
 	version: 1,
 	title: 'fleet counter',
