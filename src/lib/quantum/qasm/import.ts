@@ -71,7 +71,6 @@ interface Op {
 const PI = exactNum(1n, 1n, 1);
 const HALF_PI = exactNum(1n, 2n, 1);
 const QUARTER_PI = exactNum(1n, 4n, 1);
-const ZERO = exactNum(0n);
 const neg = (x: Num) => mul(exactNum(-1n), x);
 const half = (x: Num) => mul(exactNum(1n, 2n), x);
 const isExactZero = (x: Num) => x.exact && x.n === 0n;

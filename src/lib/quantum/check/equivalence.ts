@@ -1,0 +1,65 @@
+/**
+ * Unitary of a small lowered circuit and comparison of unitaries up to global phase, for checking
+ * decompositions (a ccp lowering, an imported gate, an OpenQASM 2 export) against each other.
+ *
+ * Qubit order: flat qubit q is bit q of the basis index (little-endian). The matrix is returned
+ * column by column: column j is the circuit applied to |j⟩, entries interleaved (re, im).
+ */
+import { buildGateTables, applyLoweredGates, createState, setBasisState } from '../amplitudes.js';
+import type { LoweredCircuit } from '../circuit.js';
+
+/** Largest circuit whose unitary we build (2^10 columns of 2^10 amplitudes). */
+export const MAX_UNITARY_QUBITS = 10;
+
+/** A dense unitary: `columns[j]` = U|j⟩ as interleaved (re, im) pairs. */
+export interface DenseUnitary {
+	qubitCount: number;
+	columns: Float64Array[];
+}
+
+/** Unitary of a lowered circuit (≤ 10 qubits), from the amplitude engine run on every basis state. */
+export function circuitUnitary(c: LoweredCircuit): DenseUnitary {
+	if (c.qubitCount > MAX_UNITARY_QUBITS) throw new RangeError(`unitary of ${c.qubitCount} qubits is too large (limit ${MAX_UNITARY_QUBITS})`);
+	const t = buildGateTables(c);
+	const dim = 1 << c.qubitCount;
+	const columns: Float64Array[] = [];
+	const s = createState(c.qubitCount);
+	for (let j = 0; j < dim; j++) {
+		setBasisState(s, j);
+		applyLoweredGates(s, c, t, 0, c.gateCount);
+		columns.push(s.data.slice());
+	}
+	return { qubitCount: c.qubitCount, columns };
+}
+
+/**
+ * max |A_ij − e^{iφ} B_ij| for the global phase φ that best aligns B with A (0 means equal up to
+ * global phase). A and B must have the same size.
+ */
+export function unitaryDistance(a: DenseUnitary, b: DenseUnitary): number {
+	if (a.qubitCount !== b.qubitCount) return Infinity;
+	let re = 0;
+	let im = 0;
+	for (let j = 0; j < a.columns.length; j++) {
+		const x = a.columns[j];
+		const y = b.columns[j];
+		for (let i = 0; i < x.length; i += 2) {
+			re += x[i] * y[i] + x[i + 1] * y[i + 1];
+			im += x[i + 1] * y[i] - x[i] * y[i + 1];
+		}
+	}
+	const r = Math.hypot(re, im);
+	const c = r > 1e-300 ? re / r : 1;
+	const s = r > 1e-300 ? im / r : 0;
+	let worst = 0;
+	for (let j = 0; j < a.columns.length; j++) {
+		const x = a.columns[j];
+		const y = b.columns[j];
+		for (let i = 0; i < x.length; i += 2) {
+			const yr = c * y[i] - s * y[i + 1];
+			const yi = s * y[i] + c * y[i + 1];
+			worst = Math.max(worst, Math.hypot(x[i] - yr, x[i + 1] - yi));
+		}
+	}
+	return worst;
+}
