@@ -184,6 +184,11 @@ export interface CircuitDocument {
 	body: BodyItem[];
 	blocks?: UserBlock[];
 	defaults?: CircuitDefaults;
+	/**
+	 * What the circuit must compute, as `OUT = EXPR` over the input registers' start values
+	 * (`b = b + c*a mod 16`). Used by checks, and for expected angles in hand-written sections.
+	 */
+	specs?: string[];
 }
 
 // ----------------------------------------------------------------------------------------------

@@ -27,6 +27,7 @@ import {
 import { addAngles, divergence, dyadic, floatTurns, formatRadians, formatTurns, isZeroSigned, ZERO_ANGLE, type Angle, type SignedAngle } from './angle.js';
 import { gateAt, type GateView, type LoweredCircuit } from './circuit.js';
 import { computeExpectations, ExpectKind, type ExpectationEvents } from './expect.js';
+import { computeIntentExpectations, mergeExpectations, type RegisterIntent } from './intent.js';
 import {
 	applyLedgerGate,
 	buildLedgerTables,
@@ -63,6 +64,8 @@ export interface RunOptions {
 	engine?: 'auto' | 'amplitudes';
 	/** Tolerance in turns (and for Bloch components) when a float state is compared (default 1e-9). */
 	tolerance?: number;
+	/** Intended final values of registers (from specs): expected angles inside hand-written Fourier sections. */
+	intents?: RegisterIntent[];
 }
 
 /** What one qubit holds in a frame. Angles in turns. */
@@ -210,6 +213,8 @@ export class Run {
 	readonly contributions: ContributionLog;
 	readonly divergences: DivergenceRecord[] = [];
 	readonly keyframeChecksums: { step: number; checksum: string }[] = [];
+	/** Why spec-based expectations were not applied somewhere (empty when they all were). */
+	readonly intentWarnings: string[] = [];
 
 	private readonly ledgerTables: LedgerTables;
 	private gateTables: GateTables | null = null;
@@ -254,7 +259,13 @@ export class Run {
 			}
 		});
 
-		this.expectations = computeExpectations(circuit, known);
+		const own = computeExpectations(circuit, known);
+		const intents = options.intents ?? [];
+		if (intents.length && [...known.values()].every((v) => v !== null)) {
+			const got = computeIntentExpectations(circuit, intents, known as Map<string, bigint>);
+			this.intentWarnings = got.warnings;
+			this.expectations = mergeExpectations(own, got.events);
+		} else this.expectations = own;
 		// Per-qubit event index (CSR) for "last expectation at or before step".
 		const ev = this.expectations;
 		this.evOffsets = new Int32Array(n + 1);

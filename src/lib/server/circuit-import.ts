@@ -1,17 +1,31 @@
 import { parseCircuitDocument } from '$lib/quantum/schema';
+import { importQasm } from '$lib/quantum/qasm/import';
 import type { CircuitDocument } from '$lib/quantum/circuit';
 import { MAX_CIRCUIT_UPLOAD } from '$lib/schemas/circuits';
 
 export type ImportResult = { ok: true; document: CircuitDocument; warnings: string[] } | { ok: false; errors: string[] };
 
-/** Read an uploaded circuit: a Phasewright JSON document (OpenQASM once its importer is wired). */
+/** Read an uploaded circuit: OpenQASM 2.0 / 3.0 or a Phasewright JSON document. */
 export async function importCircuitFile(file: File): Promise<ImportResult> {
 	if (file.size > MAX_CIRCUIT_UPLOAD) return { ok: false, errors: [`${file.name} is ${file.size} bytes; the limit is ${MAX_CIRCUIT_UPLOAD} bytes.`] };
 	const text = await file.text();
 	return importCircuitText(file.name, text);
 }
 
+/** Tell the formats apart by content first (a JSON document starts with "{"), then by name. */
 export function importCircuitText(name: string, text: string): ImportResult {
+	const trimmed = text.trimStart();
+	if (trimmed.startsWith('{') || /\.json$/i.test(name)) return importJson(name, text);
+	try {
+		const r = importQasm(text, { file: name });
+		return { ok: true, document: r.document, warnings: r.warnings.map((w) => `${name}:${w.line}:${w.column}: ${w.message}`) };
+	} catch (e) {
+		// QasmError messages already read "file:line:column: what is wrong, what was expected".
+		return { ok: false, errors: [(e as Error).message] };
+	}
+}
+
+function importJson(name: string, text: string): ImportResult {
 	let json: unknown;
 	try {
 		json = JSON.parse(text);

@@ -41,3 +41,41 @@ describe('engine session (what the workbench worker serves)', () => {
 		if (out.response.type === 'error') expect(out.response.message).toMatch(/nope/);
 	});
 });
+
+describe('spec-based angles in a hand-written Fourier section', () => {
+	const load = (values: Record<string, string>, doc = plantedFaultAdder()) =>
+		new EngineSession({ id: 1, type: 'load', doc, inputs: { values, superposed: [] } });
+
+	it('finds the planted rotation: c·a[1] → b[3] turns 1/16 where b = b + c·a needs 1/8', () => {
+		// b[3] sits at level 4 (QFT without swaps), so a[1]·2^1 adds 2/16 = 1/8 turn (arithmetic).
+		const s = load({ c: '1', a: '2', b: '0' });
+		expect(s.summary.warnings).toEqual([]);
+		const d = s.summary.firstDivergence!;
+		expect(d.label).toBe('b[3]');
+		const pos = s.position(d.step);
+		expect(pos.itemId).toBe('rot-b3-a1');
+		const f = s.frame(d.step);
+		const b3 = f.qubits.find((q) => q.register === 'b' && q.index === 3)!;
+		expect(b3.angleText).toBe('1/16');
+		expect(b3.expectedText).toBe('1/8');
+		expect(b3.divergenceText).toBe('-1/16');
+	});
+
+	it('stays quiet when the faulty monomial is off for the input (c = 0, or a[1] = 0)', () => {
+		expect(load({ c: '0', a: '15', b: '3' }).summary.firstDivergence).toBeNull();
+		expect(load({ c: '1', a: '5', b: '3' }).summary.firstDivergence).toBeNull();
+	});
+
+	it('with the rotation fixed, no input diverges anywhere (all 2·16·16 inputs)', () => {
+		const doc = plantedFaultAdder();
+		const rot = doc.body.find((b) => b.id === 'rot-b3-a1') as { angle: string };
+		rot.angle = 'pi/4';
+		for (let c = 0; c < 2; c++)
+			for (let a = 0; a < 16; a++)
+				for (let b = 0; b < 16; b++) {
+					const s = load({ c: String(c), a: String(a), b: String(b) }, doc);
+					expect(s.summary.firstDivergence).toBeNull();
+					expect(s.frame(s.summary.lastStep).registerValues.b).toBe(String((b + c * a) % 16));
+				}
+	});
+});

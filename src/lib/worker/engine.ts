@@ -5,6 +5,8 @@ import { Run, type QubitFrame, type TraceFrame } from '$lib/quantum/run';
 import { formatTurns, toTurns, toTurnsSigned, type Angle, type SignedAngle } from '$lib/quantum/angle';
 import { gateAt, gateProvenance, type GateView, type LoweredCircuit } from '$lib/quantum/circuit';
 import { parseInputValue } from './inputs';
+import { evaluateSpec, parseSpec, SpecError } from '$lib/quantum/check/spec';
+import type { RegisterIntent } from '$lib/quantum/intent';
 import type { DialQubit } from '$lib/components/dials/dial-model';
 import type { BreakpointSpec, FrameView, GateRow, LedgerView, PositionView, RunSummary, SeekKind, WorkerRequest, WorkerResponse } from './protocol';
 
@@ -30,6 +32,21 @@ export function describeGate(g: GateView, c: LoweredCircuit): string {
 
 export { parseInputValue };
 
+/** Specs as register intents; a spec that does not parse is reported, not fatal. */
+export function intentsFromSpecs(specs: string[], c: LoweredCircuit): { intents: RegisterIntent[]; problems: string[] } {
+	const intents: RegisterIntent[] = [];
+	const problems: string[] = [];
+	for (const text of specs) {
+		try {
+			const spec = parseSpec(text, c.registers);
+			intents.push({ register: spec.out, value: (inputs) => evaluateSpec(spec, new Map(inputs)) });
+		} catch (e) {
+			problems.push(e instanceof SpecError ? e.message : `spec "${text}": ${(e as Error).message}`);
+		}
+	}
+	return { intents, problems };
+}
+
 export class EngineSession {
 	readonly circuit: LoweredCircuit;
 	readonly run: Run;
@@ -46,7 +63,8 @@ export class EngineSession {
 			const raw = req.inputs.values[r.name];
 			if (raw !== undefined) values[r.name] = parseInputValue(raw, r.name, r.size);
 		}
-		this.run = new Run(c, { values, superposed: req.inputs.superposed }, { keyframeInterval: req.keyframeInterval });
+		const { intents, problems } = intentsFromSpecs(req.doc.specs ?? [], c);
+		this.run = new Run(c, { values, superposed: req.inputs.superposed }, { keyframeInterval: req.keyframeInterval, intents });
 		this.labels = [];
 		for (const r of c.registers) for (let i = 0; i < r.size; i++) this.labels[r.offset + i] = `${r.name}[${i}]`;
 		const first = this.run.divergences[0];
@@ -72,7 +90,7 @@ export class EngineSession {
 			divergenceCount: this.run.divergences.length,
 			handover: this.run.handover,
 			stopped: this.run.stopped,
-			warnings: this.run.expectations.warnings.map((w) => w.message),
+			warnings: [...problems, ...this.run.intentWarnings, ...this.run.expectations.warnings.map((w) => w.message)],
 			keyframeChecksums: this.run.keyframeChecksums,
 			millis: Date.now() - t0
 		};

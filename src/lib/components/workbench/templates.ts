@@ -14,6 +14,11 @@ function doc(title: string, registers: CircuitDocument['registers'], body: BodyI
 	return { format: CIRCUIT_FORMAT, version: CIRCUIT_VERSION, title, registers, body };
 }
 
+function withSpec(spec: string, d: CircuitDocument): CircuitDocument {
+	d.specs = [spec];
+	return d;
+}
+
 export function makeTemplate(name: TemplateName, title?: string, n = 3): CircuitDocument {
 	switch (name) {
 		case 'blank':
@@ -22,20 +27,20 @@ export function makeTemplate(name: TemplateName, title?: string, n = 3): Circuit
 				{ name: 'b', size: n, role: 'output' }
 			], []);
 		case 'adder':
-			return doc(title || `${n}-bit Fourier adder`, [
+			return withSpec(`b = a + b mod ${2 ** n}`, doc(title || `${n}-bit Fourier adder`, [
 				{ name: 'a', size: n, role: 'input' },
 				{ name: 'b', size: n, role: 'output' }
 			], [
 				{ id: 'qft-b', type: 'qft', register: 'b', swaps: false },
 				{ id: 'add-a', type: 'add', addend: 'a', target: 'b' },
 				{ id: 'iqft-b', type: 'iqft', register: 'b', swaps: false }
-			]);
+			]));
 		case 'multiplier':
-			return doc(title || `${n}-bit multiplier`, [
+			return withSpec(`p = p + a*b mod ${2 ** (2 * n)}`, doc(title || `${n}-bit multiplier`, [
 				{ name: 'a', size: n, role: 'input' },
 				{ name: 'b', size: n, role: 'input' },
 				{ name: 'p', size: 2 * n, role: 'output' }
-			], [{ id: 'mul', type: 'multiply', a: 'a', b: 'b', product: 'p' }]);
+			], [{ id: 'mul', type: 'multiply', a: 'a', b: 'b', product: 'p' }]));
 	}
 }
 
@@ -64,16 +69,19 @@ export function plantedFaultAdder(): CircuitDocument {
 		}
 	}
 	body.push({ id: 'iqft-b', type: 'iqft', register: 'b', swaps: false, label: 'b back' });
-	return doc('Controlled adder, hand-written (fault planted)', [
+	const d = doc('Controlled adder, hand-written (fault planted)', [
 		{ name: 'c', size: 1, role: 'input' },
 		{ name: 'a', size: n, role: 'input' },
 		{ name: 'b', size: n, role: 'output' }
 	], body);
+	d.specs = ['b = b + c*a mod 16'];
+	return d;
 }
 
 /** Demo: a correct 4-bit multiplier built from the library block, ancilla-free lowering. */
 export function demoMultiplier(): CircuitDocument {
 	const d = makeTemplate('multiplier', '4-bit multiplier (half-angle lowering)', 4);
 	(d.body[0] as { ccpLowering?: string }).ccpLowering = 'no-ancilla';
+	d.specs = ['p = p + a*b mod 256'];
 	return d;
 }
