@@ -1,5 +1,5 @@
 import { expect, test } from '@playwright/test';
-import { freshEmail, pathOf, waitForMail } from './support/accounts';
+import { formHeaders, freshEmail, pathOf, waitForMail } from './support/accounts';
 import { demo, signInInBrowser } from './support/demo';
 
 test('an owner invites by e-mail; a new person signs up through the link and sees the team', async ({ page, browser }) => {
@@ -57,4 +57,15 @@ test('a form that fails keeps what was typed and says what is wrong, per field',
 	await expect(page.getByLabel('Password')).toHaveValue('');
 	await expect(page.getByLabel('E-mail')).toHaveAccessibleDescription('That does not look like an e-mail address.');
 	await expect(page.getByLabel('Password')).toHaveAccessibleDescription(/Use at least 10 characters/);
+});
+
+test('a failed form post never sends the password back', async ({ request }) => {
+	const res = await request.post('/signup', {
+		form: { name: 'Quill Ardent', email: 'not-an-address', password: 'short-secret-x' },
+		headers: formHeaders
+	});
+	expect(res.status()).toBe(400);
+	const body = await res.text();
+	expect(body).toContain('not-an-address');
+	expect(body).not.toContain('short-secret-x');
 });
