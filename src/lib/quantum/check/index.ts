@@ -30,6 +30,8 @@ export interface CheckOptions {
 	proof?: boolean;
 	maxAmplitudeQubits?: number;
 	onProgress?: (done: number, total: number) => void;
+	/** For imported files: body item id → lines of the `gate` definitions it went through (suspects then name them too). */
+	definitionLines?: Map<string, number[]>;
 }
 
 /** The report `check --json` prints (stable field names). */
@@ -42,7 +44,7 @@ export interface CheckReport {
 	worstSuccessProbability: number;
 	failures: SweepCase[];
 	wrongTerms: (Omit<WrongTerm, 'gates' | 'neighbours'> & { gates: number[] })[];
-	suspects: { line: number | null; gate: number; kind: string; qubit: string; reason: string }[];
+	suspects: { line: number | null; definitionLines: number[]; gate: number; kind: string; qubit: string; reason: string }[];
 	proof: { status: ProofResult['status'] | 'skipped'; reason: string | null; sections: ProofResult['sections']; termsChecked: number; registerMismatches: ProofResult['registerMismatches'] };
 	specs: string[];
 	inputs: { registers: string[]; bits: number };
@@ -132,7 +134,14 @@ export function checkCircuit(c: LoweredCircuit, specTexts: string[], options: Ch
 		worstSuccessProbability: sweep.worstSuccessProbability,
 		failures: sweep.failures,
 		wrongTerms: (proof?.wrongTerms ?? []).slice(0, 100).map((w) => ({ target: w.target, term: w.term, expectedTurns: w.expectedTurns, actualTurns: w.actualTurns, lines: w.lines, where: w.where, differenceTurns: w.differenceTurns, gates: w.gates.map((x) => x.gate) })),
-		suspects: suspects.map((s) => ({ line: s.line, gate: s.gate, kind: s.kind, qubit: s.qubit, reason: s.reason })),
+		suspects: suspects.map((s) => ({
+			line: s.line,
+			definitionLines: options.definitionLines?.get(c.itemIds[c.itemOf[s.gate]]) ?? [],
+			gate: s.gate,
+			kind: s.kind,
+			qubit: s.qubit,
+			reason: s.reason
+		})),
 		proof: {
 			status: proof ? proof.status : 'skipped',
 			reason: proof?.reason ?? proofReason,

@@ -1,0 +1,239 @@
+/**
+ * Phasewright command line: check, run, count and convert circuits (OpenQASM 2/3 or the JSON
+ * document). Thin: reading files and printing; the work is in src/lib/quantum.
+ * Exit codes: 0 every input checked meets every spec; 1 some do not; 2 unusable file or arguments.
+ */
+import { readFileSync, writeFileSync } from 'node:fs';
+import { pathToFileURL } from 'node:url';
+import { importQasm } from '../lib/quantum/qasm/import.js';
+import { exportQasm } from '../lib/quantum/qasm/export.js';
+import { QasmError } from '../lib/quantum/qasm/lexer.js';
+import { lowerCircuit } from '../lib/quantum/lower.js';
+import { readCircuitDocument, serializeCircuitDocument } from '../lib/quantum/schema.js';
+import type { CircuitDocument, LoweredCircuit } from '../lib/quantum/circuit.js';
+import { checkCircuit, countResources, SpecError, type CheckReport } from '../lib/quantum/check/index.js';
+import type { InputChoice } from '../lib/quantum/check/sweep.js';
+import { runBasisInput, type RunReport } from '../lib/quantum/check/run-input.js';
+
+/** Output sinks, so tests can call {@link main} without a process. */
+export interface Io {
+	out: (text: string) => void;
+	err: (text: string) => void;
+	readFile: (path: string) => string;
+	writeFile: (path: string, text: string) => void;
+}
+
+const nodeIo: Io = {
+	out: (t) => process.stdout.write(t.endsWith('\n') ? t : t + '\n'),
+	err: (t) => process.stderr.write(t.endsWith('\n') ? t : t + '\n'),
+	readFile: (p) => readFileSync(p, 'utf8'),
+	writeFile: (p, t) => writeFileSync(p, t)
+};
+
+class UsageError extends Error {}
+
+const USAGE = `usage: phasewright <command> [options]
+  check FILE --spec "OUT = EXPR" [--spec …] [--inputs all|random:N|a=5,b=3] [--seed N] [--json]
+  run FILE --input a=5,b=3 [--engine ledger|amplitudes] [--step N] [--json]
+  count FILE [--json]
+  convert IN OUT            (.qasm = OpenQASM 2 unless its header says 3, .qasm3 = OpenQASM 3, .json = document)
+Registers read little-endian: name[0] is the least-significant bit.`;
+
+interface Args {
+	positional: string[];
+	flags: Map<string, string[]>;
+}
+function parseArgs(argv: string[]): Args {
+	const positional: string[] = [];
+	const flags = new Map<string, string[]>();
+	const valued = new Set(['--spec', '--inputs', '--input', '--engine', '--step', '--seed']);
+	for (let i = 0; i < argv.length; i++) {
+		const a = argv[i];
+		if (a.startsWith('--')) {
+			const [k, inline] = a.includes('=') && !valued.has(a) ? [a.slice(0, a.indexOf('=')), a.slice(a.indexOf('=') + 1)] : [a, undefined];
+			if (valued.has(k)) {
+				const v = inline ?? argv[++i];
+				if (v === undefined) throw new UsageError(`${k} needs a value`);
+				flags.set(k, [...(flags.get(k) ?? []), v]);
+			} else if (k === '--json' || k === '--help') flags.set(k, ['1']);
+			else throw new UsageError(`unknown option ${k}`);
+		} else positional.push(a);
+	}
+	return { positional, flags };
+}
+
+/** Read a circuit file by extension / header. */
+function loadDocument(path: string, io: Io): { doc: CircuitDocument; warnings: string[]; definitionLines?: Map<string, number[]> } {
+	let text: string;
+	try {
+		text = io.readFile(path);
+	} catch (e) {
+		throw new UsageError(`${path}: cannot read the file (${(e as NodeJS.ErrnoException).code ?? (e as Error).message})`);
+	}
+	if (path.toLowerCase().endsWith('.json')) {
+		let json: unknown;
+		try {
+			json = JSON.parse(text);
+		} catch (e) {
+			throw new UsageError(`${path}:1:1: not valid JSON (${(e as Error).message})`);
+		}
+		try {
+			return { doc: readCircuitDocument(json), warnings: [] };
+		} catch (e) {
+			throw new UsageError(`${path}: ${(e as Error).message}`);
+		}
+	}
+	const r = importQasm(text, { file: path, defaultVersion: path.toLowerCase().endsWith('.qasm3') ? 3 : 2 });
+	const definitionLines = new Map<string, number[]>();
+	r.document.body.forEach((item, i) => {
+		if (r.origins[i]?.definitions.length) definitionLines.set(item.id, r.origins[i].definitions.map((d) => d.line));
+	});
+	return { doc: r.document, warnings: r.warnings.map((w) => `${path}:${w.line}:${w.column}: warning: ${w.message}`), definitionLines };
+}
+
+function lower(doc: CircuitDocument, path: string): LoweredCircuit {
+	try {
+		return lowerCircuit(doc);
+	} catch (e) {
+		throw new UsageError(`${path}: ${(e as Error).message}`);
+	}
+}
+
+function parseValues(text: string, what: string): Map<string, bigint> {
+	const m = new Map<string, bigint>();
+	for (const part of text.split(',').filter(Boolean)) {
+		const mm = /^\s*([A-Za-z_][A-Za-z0-9_]*)\s*=\s*(0x[0-9a-fA-F]+|0b[01]+|\d+)\s*$/.exec(part);
+		if (!mm) throw new UsageError(`${what}: expected name=value pairs such as a=5,b=3, got "${part}"`);
+		m.set(mm[1], BigInt(mm[2]));
+	}
+	return m;
+}
+
+function inputChoice(args: Args, c: LoweredCircuit): InputChoice | undefined {
+	const v = args.flags.get('--inputs')?.[0];
+	const seed = Number(args.flags.get('--seed')?.[0] ?? 1);
+	if (!Number.isInteger(seed)) throw new UsageError('--seed must be an integer');
+	if (v === undefined) return { mode: 'auto', sample: 1000, seed };
+	if (v === 'all') return { mode: 'all' };
+	const r = /^random:(\d+)$/.exec(v);
+	if (r) return { mode: 'random', count: Math.max(1, Math.min(10_000_000, Number(r[1]))), seed };
+	const values = parseValues(v, '--inputs');
+	for (const [k, x] of values) {
+		const reg = c.registers.find((q) => q.name === k);
+		if (!reg) throw new UsageError(`--inputs: unknown register "${k}"; the circuit has ${c.registers.map((q) => q.name).join(', ')}`);
+		if (x >= 1n << BigInt(reg.size)) throw new UsageError(`--inputs: ${k}=${x} does not fit in ${reg.size} bits`);
+	}
+	return { mode: 'given', values };
+}
+
+function printCheck(r: CheckReport, path: string, io: Io): void {
+	const lines: string[] = [];
+	lines.push(`${path}: ${r.ok ? 'PASS' : 'FAIL'} (simulated, not a hardware run)`);
+	lines.push(`  specs: ${r.specs.join('; ')}`);
+	lines.push(`  inputs: ${r.inputs.registers.join(', ') || '(none)'} (${r.inputs.bits} bits), ${r.cases} checked${r.exhaustive ? ' (all)' : ''}, ${r.failed} failed`);
+	lines.push(`  worst-case success probability: ${r.worstSuccessProbability}`);
+	lines.push(`  method: ${r.method}; proof: ${r.proof.status}${r.proof.reason ? ` (${r.proof.reason})` : ''}`);
+	for (const s of r.proof.sections) lines.push(`  section on ${s.register}: QFT gates ${s.qftGates.join('–')}, inverse ${s.iqftGates.join('–')}, layout ${s.layout}`);
+	for (const f of r.failures.slice(0, 10))
+		lines.push(`  input ${fmt(f.input)}: expected ${fmt(f.expected)}, got ${fmt(f.got)} (probability of the right answer ${f.probability.toPrecision(6)})`);
+	if (r.failures.length > 10) lines.push(`  … ${r.failed - 10} more failing inputs`);
+	for (const w of r.wrongTerms.slice(0, 10))
+		lines.push(`  wrong term on ${w.target}: coefficient of ${w.term} is ${w.actualTurns}, expected ${w.expectedTurns} (${w.where}; lines ${w.lines.join(', ') || '–'})`);
+	for (const m of r.proof.registerMismatches.slice(0, 10)) lines.push(`  ${m.register ? `${m.qubit} ends holding ${m.holds}, expected ${m.expected}` : m.holds}`);
+	for (const s of r.suspects.slice(0, 5))
+		lines.push(`  suspect: line ${s.line ?? '?'}${s.definitionLines.length ? ` (via gate definition line ${s.definitionLines.join(', ')})` : ''} (gate ${s.gate}, ${s.kind} on ${s.qubit}): ${s.reason}`);
+	for (const n of r.notes.slice(1)) lines.push(`  note: ${n}`);
+	io.out(lines.join('\n'));
+}
+const fmt = (o: Record<string, string>) => Object.entries(o).map(([k, v]) => `${k}=${v}`).join(',');
+
+function printRun(r: RunReport, io: Io): void {
+	const lines = [`engine: ${r.engine}; after ${r.step} of ${r.gateCount} gates (simulated, not a hardware run)`];
+	for (const reg of r.registers) lines.push(`  ${reg.name} = ${reg.values.map((v) => `${v.value} (p=${v.probability.toPrecision(6)})`).join(', ')}`);
+	for (const q of r.frames) lines.push(`  ${q.qubit}: ${q.text}`);
+	io.out(lines.join('\n'));
+}
+
+/** Run one command; returns the exit code (0 ok, 1 check failed, 2 unusable input). */
+export function main(argv: string[], io: Io = nodeIo): number {
+	let json = false;
+	try {
+		const args = parseArgs(argv);
+		json = args.flags.has('--json');
+		const [cmd, ...rest] = args.positional;
+		if (!cmd || args.flags.has('--help')) {
+			io.out(USAGE);
+			return cmd ? 0 : 2;
+		}
+		switch (cmd) {
+			case 'check': {
+				if (rest.length !== 1) throw new UsageError('check needs exactly one FILE');
+				const specs = args.flags.get('--spec') ?? [];
+				if (!specs.length) throw new UsageError('check needs at least one --spec "OUT = EXPR"');
+				const { doc, warnings, definitionLines } = loadDocument(rest[0], io);
+				const c = lower(doc, rest[0]);
+				const r = checkCircuit(c, specs, { inputs: inputChoice(args, c), definitionLines });
+				if (!json) for (const w of warnings) io.err(w);
+				if (json) io.out(JSON.stringify(r, null, 2));
+				else printCheck(r, rest[0], io);
+				return r.ok ? 0 : 1;
+			}
+			case 'run': {
+				if (rest.length !== 1) throw new UsageError('run needs exactly one FILE');
+				const input = args.flags.get('--input')?.[0];
+				const { doc } = loadDocument(rest[0], io);
+				const c = lower(doc, rest[0]);
+				const values = input ? parseValues(input, '--input') : new Map<string, bigint>();
+				for (const k of values.keys()) if (!c.registers.some((r) => r.name === k)) throw new UsageError(`--input: unknown register "${k}"`);
+				const engine = (args.flags.get('--engine')?.[0] ?? 'ledger') as 'ledger' | 'amplitudes';
+				if (engine !== 'ledger' && engine !== 'amplitudes') throw new UsageError('--engine must be ledger or amplitudes');
+				const stepText = args.flags.get('--step')?.[0];
+				const step = stepText === undefined ? c.gateCount : Number(stepText);
+				if (!Number.isInteger(step) || step < 0 || step > c.gateCount) throw new UsageError(`--step must be an integer 0..${c.gateCount}`);
+				const r = runBasisInput(c, values, { engine, step });
+				if (json) io.out(JSON.stringify(r, null, 2));
+				else printRun(r, io);
+				return 0;
+			}
+			case 'count': {
+				if (rest.length !== 1) throw new UsageError('count needs exactly one FILE');
+				const { doc } = loadDocument(rest[0], io);
+				const r = countResources(lower(doc, rest[0]));
+				if (json) io.out(JSON.stringify(r, null, 2));
+				else
+					io.out(
+						[
+							`qubits: ${r.qubits}`,
+							`gates: ${r.gates} (${Object.entries(r.byKind).map(([k, v]) => `${k} ${v}`).join(', ')})`,
+							`rotations: ${Object.entries(r.rotations).map(([k, v]) => `${k} ${v}`).join(', ') || 'none'}   (R_k = 2π/2^k)`,
+							`depth: ${r.depth}`,
+							`two-qubit gates: ${r.twoQubitGates}; gates on 3+ qubits: ${r.multiQubitGates}`
+						].join('\n')
+					);
+				return 0;
+			}
+			case 'convert': {
+				if (rest.length !== 2) throw new UsageError('convert needs IN and OUT');
+				const [inp, outp] = rest;
+				const { doc } = loadDocument(inp, io);
+				const lo = outp.toLowerCase();
+				if (lo.endsWith('.json')) io.writeFile(outp, serializeCircuitDocument(doc) + '\n');
+				else if (lo.endsWith('.qasm3')) io.writeFile(outp, exportQasm(lower(doc, inp), { version: 3 }));
+				else if (lo.endsWith('.qasm')) io.writeFile(outp, exportQasm(lower(doc, inp), { version: 2 }));
+				else throw new UsageError(`${outp}: unknown output type; expected .qasm (OpenQASM 2), .qasm3 (OpenQASM 3) or .json`);
+				if (!json) io.out(`wrote ${outp}`);
+				return 0;
+			}
+			default:
+				throw new UsageError(`unknown command "${cmd}"\n${USAGE}`);
+		}
+	} catch (e) {
+		const msg = e instanceof QasmError || e instanceof UsageError ? e.message : e instanceof SpecError ? `--spec: ${e.message}` : e instanceof RangeError ? e.message : null;
+		if (msg === null) throw e;
+		if (json) io.out(JSON.stringify({ ok: false, error: msg }));
+		io.err(msg);
+		return 2;
+	}
+}
+
+if (import.meta.url === pathToFileURL(process.argv[1] ?? '').href) process.exitCode = main(process.argv.slice(2));
