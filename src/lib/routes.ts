@@ -17,12 +17,32 @@ export const routes = {
 	circuits: (slug: string) => `/teams/${enc(slug)}/circuits`,
 	circuit: (slug: string, id: string, version?: number) =>
 		`/teams/${enc(slug)}/circuits/${enc(id)}${version ? `?version=${version}` : ''}`,
+	traces: (slug: string) => `/teams/${enc(slug)}/traces`,
+	/** The read-only replay of a saved trace, opened at `step` (and, from a report, linking back to it). */
+	replay: (slug: string, traceId: string, step?: number, reportId?: string) => {
+		const q = new URLSearchParams();
+		if (step !== undefined) q.set('step', String(step));
+		if (reportId) q.set('report', reportId);
+		const qs = q.toString();
+		return `/teams/${enc(slug)}/traces/${enc(traceId)}/replay${qs ? `?${qs}` : ''}`;
+	},
+	reports: (slug: string) => `/teams/${enc(slug)}/reports`,
+	report: (slug: string, id: string) => `/teams/${enc(slug)}/reports/${enc(id)}`,
 	devOutbox: () => '/dev/outbox',
 	api: {
 		me: () => '/api/me',
 		teams: () => '/api/teams',
 		teamMembers: (slug: string) => `/api/teams/${enc(slug)}/members`,
-		teamInvitations: (slug: string) => `/api/teams/${enc(slug)}/invitations`
+		teamInvitations: (slug: string) => `/api/teams/${enc(slug)}/invitations`,
+		traces: (slug: string) => `/api/teams/${enc(slug)}/traces`,
+		trace: (slug: string, id: string) => `/api/teams/${enc(slug)}/traces/${enc(id)}`,
+		reports: (slug: string) => `/api/teams/${enc(slug)}/reports`,
+		report: (slug: string, id: string) => `/api/teams/${enc(slug)}/reports/${enc(id)}`,
+		reportComments: (slug: string, id: string) => `/api/teams/${enc(slug)}/reports/${enc(id)}/comments`,
+		breakpoints: (slug: string) => `/api/teams/${enc(slug)}/breakpoints`,
+		breakpoint: (slug: string, id: string) => `/api/teams/${enc(slug)}/breakpoints/${enc(id)}`,
+		breakpointComments: (slug: string, id: string) => `/api/teams/${enc(slug)}/breakpoints/${enc(id)}/comments`,
+		attachment: (slug: string, id: string) => `/api/teams/${enc(slug)}/attachments/${enc(id)}`
 	}
 };
 
