@@ -75,6 +75,12 @@ export class RunSession {
 		return res.type === 'frame' ? res.frame : null;
 	}
 
+	/** The frame at `step` without moving the view (e.g. the final frame for a saved trace). */
+	async peek(step: number): Promise<FrameView | null> {
+		if (!this.summary) return null;
+		return this.#frame(Math.max(0, Math.min(this.summary.lastStep, Math.round(step))));
+	}
+
 	async goto(step: number): Promise<void> {
 		if (!this.summary) return;
 		const s = Math.max(0, Math.min(this.summary.lastStep, Math.round(step)));
