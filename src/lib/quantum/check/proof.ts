@@ -40,7 +40,7 @@ export interface WrongTerm {
 	expectedTurns: string;
 	actualTurns: string;
 	/** Gates (lowered indices) that added to this term, with their amounts; `explains` when the amount accounts for the error (±difference, or half of it: a sign slip). */
-	gates: { gate: number; turns: string; explains: boolean }[];
+	gates: { gate: number; turns: string; explains: boolean; exact: boolean }[];
 	/** For a term nothing added to: gates next to where it belongs (same target, or same term on another target). */
 	neighbours: number[];
 	lines: number[];
@@ -267,7 +267,10 @@ export function proveCircuit(c: LoweredCircuit, goal: ProofGoal): ProofResult {
 		if (wrongTerms.length >= 500) return;
 		const dA: Angle = d.exact ? dyadic(d.num, d.exp) : { exact: false, turns: d.turns - Math.floor(d.turns) };
 		const same = (x: Angle, y: Angle) => isZeroSigned(reduceSigned(subtractAngles(x, y)), 1e-12);
-		const gates = from.map(([g, a]) => ({ gate: g, turns: formatTurns(reduceSigned(a)), explains: same(a, dA) || same(negateAngle(a), dA) || same(scaleAngle(a, 2n), dA) }));
+		const gates = from.map(([g, a]) => {
+			const exact = same(a, dA) || same(negateAngle(a), dA);
+			return { gate: g, turns: formatTurns(reduceSigned(a)), explains: exact || same(scaleAngle(a, 2n), dA), exact };
+		});
 		wrongTerms.push({
 			target,
 			term,

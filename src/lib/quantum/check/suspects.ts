@@ -53,7 +53,7 @@ export function findSuspects(c: LoweredCircuit, proof: ProofResult | null, failu
 			for (const x of w.gates)
 				add(
 					x.gate,
-					x.explains ? 3 : 1 / n,
+					x.explains ? (x.exact ? 3 : 2) : 1 / n,
 					x.explains
 						? `wrong term ${w.term} on ${w.target}: this gate adds ${x.turns}, which accounts for the error (expected ${w.expectedTurns}, got ${w.actualTurns})`
 						: `feeds wrong term ${w.term} on ${w.target} (expected ${w.expectedTurns}, got ${w.actualTurns})`
