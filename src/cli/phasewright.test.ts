@@ -1,0 +1,109 @@
+import { readFileSync } from 'node:fs';
+import { spawnSync } from 'node:child_process';
+import { fileURLToPath } from 'node:url';
+import { describe, expect, it } from 'vitest';
+import { main, type Io } from './phasewright.js';
+
+const fixtures = fileURLToPath(new URL('../lib/quantum/qasm/fixtures/', import.meta.url));
+const adder = readFileSync(`${fixtures}adder3.qasm`, 'utf8');
+
+function run(argv: string[], files: Record<string, string> = {}) {
+	const out: string[] = [];
+	const err: string[] = [];
+	const written: Record<string, string> = {};
+	const io: Io = {
+		out: (t) => out.push(t),
+		err: (t) => err.push(t),
+		readFile: (p) => {
+			if (p in files) return files[p];
+			if (p in written) return written[p];
+			return readFileSync(p, 'utf8');
+		},
+		writeFile: (p, t) => {
+			written[p] = t;
+		}
+	};
+	const code = main(argv, io);
+	return { code, out: out.join('\n'), err: err.join('\n'), written };
+}
+
+describe('phasewright check', () => {
+	it('exit 0 and a plain summary when every input meets the spec', () => {
+		const r = run(['check', `${fixtures}adder3.qasm`, '--spec', 'b = a + b mod 8']);
+		expect(r.code).toBe(0);
+		expect(r.out).toContain('PASS (simulated, not a hardware run)');
+		expect(r.out).toContain('64 checked (all), 0 failed');
+	});
+	it('exit 1 with the JSON report when some inputs fail', () => {
+		const bad = adder.replace('cu1(pi/2) a[1], b[2];', 'cu1(pi/4) a[1], b[2];');
+		const r = run(['check', 'bad.qasm', '--spec', 'b = a + b mod 8', '--json'], { 'bad.qasm': bad });
+		expect(r.code).toBe(1);
+		const j = JSON.parse(r.out);
+		for (const k of ['ok', 'method', 'cases', 'failed', 'worstSuccessProbability', 'failures', 'wrongTerms', 'suspects']) expect(j).toHaveProperty(k);
+		expect(j.ok).toBe(false);
+		expect(j.method).toBe('sweep+proof');
+		expect(j.cases).toBe(64);
+		expect(j.failures.length).toBeLessThanOrEqual(20);
+		expect(Object.keys(j.failures[0]).sort()).toEqual(['engine', 'expected', 'got', 'input', 'probability']);
+		expect(j.wrongTerms[0]).toEqual(expect.objectContaining({ target: 'b[2]', term: 'a[1]', expectedTurns: '1/4 turn', actualTurns: '1/8 turn', lines: [23] }));
+		expect(j.suspects[0]).toEqual(expect.objectContaining({ line: 23, gate: 10, qubit: 'b[2]' }));
+		expect(typeof j.suspects[0].reason).toBe('string');
+	});
+	it('--inputs a=5,b=3 checks one input; random:N a seeded sample', () => {
+		const one = JSON.parse(run(['check', `${fixtures}adder3.qasm`, '--spec', 'b = a + b mod 8', '--inputs', 'a=5,b=3', '--json']).out);
+		expect([one.cases, one.ok]).toEqual([1, true]);
+		const some = JSON.parse(run(['check', `${fixtures}adder3.qasm`, '--spec', 'b = a + b mod 8', '--inputs', 'random:10', '--json']).out);
+		expect(some.cases).toBe(10);
+	});
+	it('exit 2 for an unusable file, spec or option, with file:line:column', () => {
+		const f = run(['check', 'broken.qasm', '--spec', 'b = a'], { 'broken.qasm': 'OPENQASM 2.0;\nqreg b[2];\nh b[0]\n' });
+		expect(f.code).toBe(2);
+		expect(f.err).toBe('broken.qasm:3:7: missing ";" after the call of h; found the end of the file');
+		const s = run(['check', `${fixtures}adder3.qasm`, '--spec', 'b = a + z']);
+		expect(s.code).toBe(2);
+		expect(s.err).toContain('column 9: unknown register "z"');
+		expect(run(['check', 'nowhere.qasm', '--spec', 'b = a']).code).toBe(2);
+		expect(run(['check', `${fixtures}adder3.qasm`]).code).toBe(2);
+		expect(run(['frobnicate']).code).toBe(2);
+	});
+});
+
+describe('run, count, convert', () => {
+	it('run prints register values with probabilities and each qubit frame', () => {
+		const r = run(['run', `${fixtures}adder3.qasm`, '--input', 'a=5,b=3', '--json']);
+		expect(r.code).toBe(0);
+		const j = JSON.parse(r.out);
+		expect(j.registers.find((x: { name: string }) => x.name === 'b').values[0]).toEqual({ value: '0', probability: 1 });
+		expect(j.frames).toHaveLength(6);
+		const mid = JSON.parse(run(['run', `${fixtures}adder3.qasm`, '--input', 'a=5,b=3', '--step', '6', '--json']).out);
+		// After the QFT (no swaps) b[1] holds b/4 = 3/4 turn.
+		expect(mid.frames[4]).toEqual(expect.objectContaining({ qubit: 'b[1]', kind: 'fourier', phaseTurns: '3/4 turn' }));
+		const amp = JSON.parse(run(['run', `${fixtures}adder3.qasm`, '--input', 'a=5,b=3', '--engine', 'amplitudes', '--json']).out);
+		expect(amp.engine).toBe('amplitudes');
+		expect(amp.registers[1].values[0].value).toBe('0');
+		expect(amp.registers[1].values[0].probability).toBeCloseTo(1, 12);
+	});
+	it('count --json', () => {
+		const j = JSON.parse(run(['count', `${fixtures}adder3.qasm`, '--json']).out);
+		expect(j).toEqual(expect.objectContaining({ qubits: 6, gates: 18, twoQubitGates: 12 }));
+	});
+	it('convert between OpenQASM 2, 3 and JSON', () => {
+		const a = run(['convert', `${fixtures}adder3.qasm`, 'out.qasm3']);
+		expect(a.code).toBe(0);
+		expect(a.written['out.qasm3'].startsWith('OPENQASM 3.0;')).toBe(true);
+		const b = run(['convert', `${fixtures}adder3.qasm`, 'out.json']);
+		expect(JSON.parse(b.written['out.json']).format).toBe('phasewright.circuit');
+		const c = run(['convert', 'in.json', 'back.qasm'], { 'in.json': b.written['out.json'] });
+		expect(c.written['back.qasm'].startsWith('OPENQASM 2.0;')).toBe(true);
+		expect(run(['convert', `${fixtures}adder3.qasm`, 'out.txt']).code).toBe(2);
+	});
+});
+
+describe('bin/phasewright.js', () => {
+	it('spawns the command line and passes the exit code through', () => {
+		const bin = fileURLToPath(new URL('../../bin/phasewright.js', import.meta.url));
+		const r = spawnSync(process.execPath, [bin, 'check', `${fixtures}adder3.qasm`, '--spec', 'b = a + b mod 8', '--json'], { encoding: 'utf8' });
+		expect(r.status).toBe(0);
+		expect(JSON.parse(r.stdout).ok).toBe(true);
+	}, 60_000);
+});
