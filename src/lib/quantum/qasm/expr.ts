@@ -9,6 +9,7 @@ import { dyadic, floatTurns, ZERO_ANGLE, type Angle } from '../angle.js';
 import { QasmError, type Token } from './lexer.js';
 
 const math = create({ parseDependencies }, { number: 'bigint' });
+const parseCache = new Map<string, MathNode>();
 
 /** A number in an expression: exact q·π^pi with q = n/d rational (d > 0), or a float. Units are whatever the context says (radians for angles). */
 export type Num = { exact: true; n: bigint; d: bigint; pi: 0 | 1 } | { exact: false; v: number };
@@ -176,8 +177,11 @@ export function evaluateTokens(tokens: Token[], scope: NumScope, file: string, w
 	}
 	const site: ExprSite = { line: tokens[0].line, column: tokens[0].column, file };
 	let node: MathNode;
+	const key = parts.join(' ');
 	try {
-		node = math.parse(parts.join(' '));
+		// Parsed trees are cached by text: exported files repeat the same few angle expressions.
+		node = parseCache.get(key) ?? math.parse(key);
+		if (parseCache.size < 10_000) parseCache.set(key, node);
 	} catch (e) {
 		throw new QasmError(site.line, site.column, `expression does not parse (${(e as Error).message.replace(/ \(char \d+\)/, '')}); expected an arithmetic expression`, file);
 	}
