@@ -88,7 +88,9 @@ export class CircuitEditor {
 		const before = this.doc.body.map((b) => b.id).join('\n');
 		const after = items.map((b) => b.id).join('\n');
 		if (before === after) return;
-		this.change((d) => (d.body = clone(items)));
+		this.change((d) => {
+			d.body = clone(items);
+		});
 	}
 
 	insertItem(item: BodyItem, at = this.doc.body.length): void {
@@ -99,11 +101,15 @@ export class CircuitEditor {
 	updateItem(id: string, patch: (item: BodyItem) => BodyItem): void {
 		const i = this.doc.body.findIndex((b) => b.id === id);
 		if (i < 0) return;
-		this.change((d) => (d.body[i] = patch(clone($state.snapshot(d.body[i]) as BodyItem))));
+		this.change((d) => {
+			d.body[i] = patch(clone($state.snapshot(d.body[i]) as BodyItem));
+		});
 	}
 
 	removeItem(id: string): void {
-		this.change((d) => (d.body = d.body.filter((b) => b.id !== id)));
+		this.change((d) => {
+			d.body = d.body.filter((b) => b.id !== id);
+		});
 	}
 
 	duplicateItem(id: string): void {
@@ -146,11 +152,15 @@ export class CircuitEditor {
 	}
 
 	removeRegister(name: string): void {
-		this.change((d) => (d.registers = d.registers.filter((r) => r.name !== name)));
+		this.change((d) => {
+			d.registers = d.registers.filter((r) => r.name !== name);
+		});
 	}
 
 	setTitle(title: string): void {
-		this.change((d) => (d.title = title));
+		this.change((d) => {
+			d.title = title;
+		});
 	}
 
 	/** Plain JSON copy of the document for saving or for the worker. */

@@ -9,6 +9,7 @@ export const demo: Record<string, DemoAccount> = Object.fromEntries(
 
 export async function signInInBrowser(page: Page, email: string, password: string): Promise<void> {
 	await page.goto('/signin');
+	await page.waitForFunction(() => document.documentElement.dataset.hydrated === 'true');
 	await page.getByLabel('E-mail').fill(email);
 	await page.getByLabel('Password').fill(password);
 	await page.getByRole('button', { name: 'Sign in' }).click();

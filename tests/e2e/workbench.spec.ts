@@ -1,0 +1,158 @@
+import { expect, test, type Locator, type Page } from '@playwright/test';
+import { demo, signInInBrowser } from './support/demo';
+
+// The drag that svelte-dnd-action accepts (common practice on these machines, see STACK notes):
+// press, move a few pixels, glide to the target in steps, wait, release.
+async function drag(page: Page, from: Locator, to: Locator, where: 'top' | 'bottom' = 'bottom') {
+	const a = (await from.boundingBox())!;
+	const b = (await to.boundingBox())!;
+	const sx = a.x + Math.min(24, a.width / 2);
+	const sy = a.y + a.height / 2;
+	await page.mouse.move(sx, sy);
+	await page.mouse.down();
+	for (let i = 1; i <= 3; i++) await page.mouse.move(sx + i * 2, sy + i * 2);
+	const tx = b.x + b.width / 2;
+	const ty = where === 'top' ? b.y + 6 : b.y + b.height - 5;
+	for (let i = 1; i <= 15; i++) await page.mouse.move(sx + ((tx - sx) * i) / 15, sy + ((ty - sy) * i) / 15);
+	await page.waitForTimeout(200);
+	await page.mouse.up();
+	await page.waitForTimeout(300);
+}
+
+async function setInput(page: Page, register: string, value: string) {
+	const field = page.locator(`#in-${register}`);
+	await field.fill(value);
+	await field.press('Tab');
+}
+
+/** Each row of the qubit table: register[index] → actual and expected angle text. */
+async function tableRows(page: Page) {
+	return page.locator('[data-testid=qubit-table] tbody tr').evaluateAll((rows) =>
+		rows.map((r) => ({
+			qubit: r.getAttribute('data-qubit'),
+			actual: r.querySelector('[data-col=actual]')?.textContent?.trim() ?? '',
+			expected: r.querySelector('[data-col=expected]')?.textContent?.trim() ?? ''
+		}))
+	);
+}
+
+async function hydrated(page: Page) {
+	await page.waitForFunction(() => document.documentElement.dataset.hydrated === 'true');
+}
+
+async function waitForRun(page: Page) {
+	await expect(page.getByTestId('run-summary')).toBeVisible();
+	await page.waitForTimeout(400); // the re-run after an edit is debounced by 200 ms
+}
+
+test('build a 3-bit Fourier adder by dragging parts, step it, and read 5 + 6 = 3 (mod 8)', async ({ page }) => {
+	test.setTimeout(120_000);
+	await signInInBrowser(page, demo.engineer.email, demo.engineer.password);
+	await page.goto('/teams/halvorsen-lab/circuits');
+	await hydrated(page);
+	await page.getByLabel('Title').fill(`Drag-built adder ${Date.now()}`);
+	await page.getByLabel('Empty').check();
+	await page.getByRole('button', { name: 'Create and open' }).click();
+	await expect(page).toHaveURL(/\/circuits\/[a-z2-7]{24}/);
+	await expect(page.getByTestId('circuit-strip')).toBeVisible();
+	await waitForRun(page);
+
+	const strip = page.getByTestId('circuit-strip');
+	const shelf = page.getByTestId('parts-shelf');
+	for (const kind of ['qft', 'add', 'iqft']) {
+		await drag(page, shelf.locator(`[data-part="${kind}"]`), strip);
+	}
+	const items = strip.getByTestId('strip-item');
+	await expect(items).toHaveCount(3);
+	await expect(items.nth(0)).toContainText('QFT on b');
+	await expect(items.nth(1)).toContainText('b += a');
+	await expect(items.nth(2)).toContainText('inverse QFT on b');
+
+	await setInput(page, 'a', '5');
+	await setInput(page, 'b', '6');
+	await waitForRun(page);
+	await page.getByTestId('show-table').click();
+
+	// At every block boundary the actual angles equal the expected ones (the worker's own check
+	// is not trusted here: the test reads the table as a person would).
+	await page.getByTestId('scrubber').fill('0');
+	for (let i = 0; i < 4; i++) {
+		if (i > 0) await page.getByTestId('next-boundary').click();
+		await page.waitForTimeout(150);
+		for (const r of await tableRows(page)) if (r.expected) expect(r.actual, `${r.qubit} at boundary ${i}`).toBe(r.expected);
+	}
+	await page.getByTestId('to-end').click();
+	// 5 + 6 = 11 ≡ 3 (mod 8): plain arithmetic.
+	await expect(page.locator('[data-register=b]')).toHaveText('3');
+	await expect(page.locator('[data-register=a]')).toHaveText('5');
+
+	// Reorder by drag: the inverse QFT before the add leaves b in the Fourier basis at the end.
+	await drag(page, items.nth(2).locator('span.num').first(), items.nth(1), 'top');
+	await expect(items.nth(1)).toContainText('inverse QFT on b');
+	await waitForRun(page);
+	await page.getByTestId('to-end').click();
+	await expect(page.locator('[data-register=b]')).not.toHaveText('3');
+
+	// Undo puts the order back, and the sum with it.
+	await page.getByRole('button', { name: /undo/ }).click();
+	await waitForRun(page);
+	await page.getByTestId('to-end').click();
+	await expect(page.locator('[data-register=b]')).toHaveText('3');
+	await page.getByTestId('save').click();
+	await expect(page.getByTestId('save-status')).toContainText('Saved as version 2');
+});
+
+test('the planted-fault demo diverges on b[3] at the faulty rotation, and the dials draw it', async ({ page }) => {
+	test.setTimeout(120_000);
+	await signInInBrowser(page, demo.engineer.email, demo.engineer.password);
+	await page.goto('/teams/halvorsen-lab/circuits');
+	await hydrated(page);
+	await page.getByRole('link', { name: /fault planted/ }).click();
+	await waitForRun(page);
+	await setInput(page, 'c', '1');
+	await setInput(page, 'a', '2');
+	await waitForRun(page);
+	await page.getByTestId('to-divergence').click();
+	// The demo's rotation c·a[1] → b[3] turns 1/16 where b = b + c·a needs 2/16 = 1/8 (b[3] has level 4).
+	await expect(page.getByTestId('position')).toContainText('c[0], a[1] → b[3]');
+	await expect(page.getByTestId('first-divergence')).toContainText('on b[3]');
+	await expect(page.getByTestId('strip-item').filter({ hasText: 'c·a[1] → b[3]' })).toContainText('diverges');
+	const row = page.locator('[data-testid=qubit-table] tr[data-qubit="b[3]"]');
+	await expect(row.locator('[data-col=actual]')).toHaveText('1/16');
+	await expect(row.locator('[data-col=expected]')).toHaveText('1/8');
+
+	// The dial canvas is not blank: sample its pixels for more than the background colour.
+	await page.waitForTimeout(500);
+	const colours = await page.locator('[data-testid=dial-board] canvas').evaluate((c: HTMLCanvasElement) => {
+		const probe = document.createElement('canvas');
+		probe.width = c.width;
+		probe.height = c.height;
+		const ctx = probe.getContext('2d')!;
+		ctx.drawImage(c, 0, 0);
+		const d = ctx.getImageData(0, 0, c.width, c.height).data;
+		const seen = new Set<string>();
+		let red = 0;
+		for (let i = 0; i < d.length; i += 16) {
+			seen.add(`${d[i] >> 4},${d[i + 1] >> 4},${d[i + 2] >> 4}`);
+			if (d[i] > 150 && d[i + 1] < 90 && d[i + 2] < 90) red++;
+		}
+		return { distinct: seen.size, red };
+	});
+	expect(colours.distinct).toBeGreaterThan(5);
+	expect(colours.red, 'the divergence arc and needle are drawn').toBeGreaterThan(0);
+	await page.screenshot({ path: 'tests/artifacts/workbench-divergence.png', fullPage: true });
+});
+
+test('a viewer gets the workbench read-only', async ({ page }) => {
+	await signInInBrowser(page, demo.viewer.email, demo.viewer.password);
+	await page.goto('/teams/halvorsen-lab/circuits');
+	await hydrated(page);
+	await page.getByRole('link', { name: /fault planted/ }).click();
+	await waitForRun(page);
+	await expect(page.getByText(/read-only for a viewer/)).toBeVisible();
+	await expect(page.getByTestId('parts-shelf')).toHaveCount(0);
+	await expect(page.getByTestId('save')).toHaveCount(0);
+	// Stepping still works.
+	await page.getByTestId('step-forward').click();
+	await expect(page.getByTestId('step-readout')).toContainText('step 1 /');
+});
