@@ -8,6 +8,9 @@ import { createCircuit, findCircuit, findVersion, saveVersion } from './reposito
 import { insertTrace } from './repositories/traces';
 import { createReport, findReport, ReportConflict } from './repositories/reports';
 import { notifyReportPeople } from './report-mail';
+import { listBreakpoints } from './repositories/breakpoints';
+import { listMembers } from './repositories/teams';
+import { can } from '$lib/permissions';
 import { parseCircuitDocument, serializeCircuitDocument } from '$lib/quantum/schema';
 import { createReportSchema, MAX_SNAPSHOT_BYTES, type CreateReportInput } from '$lib/schemas/debugging';
 import type { z } from 'zod';
@@ -128,4 +131,18 @@ export async function openReport(access: TeamAccess, input: CreateReportInput, s
 export function rethrowReportConflict(e: unknown): never {
 	if (e instanceof ReportConflict) error(e.status, { message: e.message, code: e.status === 409 ? 'conflict' : 'bad_request' });
 	throw e;
+}
+
+/** What the workbench's team tab needs on a circuit page: saved breakpoints, members, rights. */
+export async function loadTeamDebug(access: TeamAccess, versionId: string) {
+	return {
+		breakpoints: await listBreakpoints(db, access.team.id, versionId),
+		members: (await listMembers(db, access.team.id)).map((m) => ({ id: m.user_id, name: m.name, role: m.role })),
+		rights: {
+			traceCreate: can(access.role, 'trace.create'),
+			breakpointCreate: can(access.role, 'breakpoint.create'),
+			annotate: can(access.role, 'breakpoint.annotate'),
+			reportCreate: can(access.role, 'report.create')
+		}
+	};
 }

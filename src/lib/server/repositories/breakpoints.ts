@@ -3,22 +3,11 @@ import { newId } from '../ids';
 import { renderMarkdown } from '../markdown';
 import type { z } from 'zod';
 import type { breakpointSpecSchema } from '$lib/schemas/debugging';
+import type { SavedBreakpointView } from '$lib/debug/types';
 
 type Spec = z.infer<typeof breakpointSpecSchema>;
 
-export type SavedBreakpoint = {
-	id: string;
-	circuitId: string;
-	versionId: string;
-	spec: Record<string, unknown> & { kind: Spec['kind'] };
-	note: string;
-	noteHtml: string;
-	author: { id: string; name: string } | null;
-	revision: number;
-	createdAt: string;
-	updatedAt: string;
-	comments: { id: string; author: { id: string; name: string } | null; bodyHtml: string; createdAt: string }[];
-};
+export type SavedBreakpoint = SavedBreakpointView;
 
 /** Thrown when a note edit is based on an older revision than the stored one. */
 export class StaleRevisionError extends Error {

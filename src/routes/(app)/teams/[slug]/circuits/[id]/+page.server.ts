@@ -5,6 +5,7 @@ import { can } from '$lib/permissions';
 import { createCircuit, findCircuit, findVersion, listVersions, saveVersion, StaleVersionError } from '$lib/server/repositories/circuits';
 import { parseCircuitDocument } from '$lib/quantum/schema';
 import { routes } from '$lib/routes';
+import { loadTeamDebug } from '$lib/server/debugging';
 import type { Actions, PageServerLoad } from './$types';
 
 const NOT_FOUND = { message: 'No such circuit in this team.', code: 'not_found' };
@@ -27,7 +28,8 @@ export const load: PageServerLoad = async ({ locals, params, url, depends }) => 
 		circuit: { id: circuit.id, title: circuit.title, latestVersion: circuit.latest_version },
 		version: { number: version.version, hash: version.hash, createdAt: version.created_at.toISOString(), message: version.message },
 		document: version.document,
-		versions: versions.map((v) => ({ number: v.version, message: v.message, createdAt: v.created_at.toISOString() }))
+		versions: versions.map((v) => ({ number: v.version, message: v.message, createdAt: v.created_at.toISOString() })),
+		debug: await loadTeamDebug(access, version.id)
 	};
 };
 

@@ -1,0 +1,43 @@
+// Shapes the debugging pages and the workbench's team tab receive (from load or the JSON API).
+import type { BreakpointSpec } from '$lib/worker/protocol';
+
+export type PersonRef = { id: string; name: string } | null;
+
+export type SavedBreakpointView = {
+	id: string;
+	circuitId: string;
+	versionId: string;
+	/** The BreakpointSpec without id and note. */
+	spec: Record<string, unknown> & { kind: BreakpointSpec['kind'] };
+	/** Markdown as typed. */
+	note: string;
+	/** Sanitised on the server when saved. */
+	noteHtml: string;
+	author: PersonRef;
+	revision: number;
+	createdAt: string;
+	updatedAt: string;
+	comments: { id: string; author: PersonRef; bodyHtml: string; createdAt: string }[];
+};
+
+export type TeamMemberRef = { id: string; name: string; role: string };
+
+/** A saved breakpoint as the workbench's page-local breakpoint (its note as plain markdown text). */
+export function toBreakpointSpec(b: SavedBreakpointView): BreakpointSpec {
+	return { ...(b.spec as object), id: b.id, note: b.note || undefined } as BreakpointSpec;
+}
+
+/** One line saying where a breakpoint stops. */
+export function describeBreakpoint(spec: SavedBreakpointView['spec'], qubitLabel: (q: number | null) => string = (q) => (q === null ? 'any qubit' : `q${q}`)): string {
+	const s = spec as unknown as Record<string, never>;
+	switch (spec.kind) {
+		case 'gate':
+			return `before gate #${s.gate}`;
+		case 'block':
+			return `${s.at} of block ${s.itemId}`;
+		case 'divergence':
+			return `${qubitLabel(s.qubit)} leaves its expected angle by more than ${s.tolerance} turn`;
+		default:
+			return `${qubitLabel(s.qubit)} becomes entangled`;
+	}
+}
