@@ -13,3 +13,5 @@ export PORT="${PORT:-3000}"
 export HOST="${HOST:-127.0.0.1}"
 export ORIGIN="${ORIGIN:-http://127.0.0.1:$PORT}"
 export PW_DEV_OUTBOX="${PW_DEV_OUTBOX:-1}"
+# adapter-node refuses bodies over 512 KiB by default; snapshots may be up to 5 MiB (the app checks that itself).
+export BODY_SIZE_LIMIT="${BODY_SIZE_LIMIT:-8M}"

@@ -17,6 +17,8 @@ export DB_HOST=127.0.0.1 DB_PORT=$PW_DB_PORT DB_NAME=phasewright_test DB_USER=ph
 export SMTP_URL="smtp://127.0.0.1:$PW_SMTP_PORT" MAIL_DIR="$T/mail" PW_DEV_OUTBOX=1
 export PW_TEST_DATADIR="$T/mariadb" PW_TEST_RUN=1
 export ORIGIN="http://127.0.0.1:$E2E_PORT"
+# adapter-node refuses bodies over 512 KiB by default; snapshots may be up to 5 MiB (the app checks that itself).
+export BODY_SIZE_LIMIT=8M
 
 cleanup() {
 	mail_stop "$T/mail-fake.pid"
