@@ -3,6 +3,7 @@ import { lowerCircuit, LoweringError } from '$lib/quantum/lower';
 import { Run } from '$lib/quantum/run';
 import type { CircuitDocument } from '$lib/quantum/circuit';
 import { parseInputValue } from '$lib/worker/inputs';
+import { intentsFromSpecs } from '$lib/worker/engine';
 import type { TraceSummaryInput } from '$lib/schemas/debugging';
 
 // The server runs a circuit itself when a trace arrives without a summary (the command line).
@@ -43,7 +44,9 @@ export function computeTraceSummary(doc: CircuitDocument, inputs: ServerInputs):
 		if (e instanceof RangeError) unprocessable(e.message);
 		throw e;
 	}
-	const run = new Run(circuit, { values, superposed: inputs.superposed }, { maxAmplitudeQubits: SERVER_MAX_AMPLITUDE_QUBITS, amplitudeKeyframeBytes: 64 * 2 ** 20 });
+	// The same expectations as the workbench's worker: block effects plus the document's specs.
+	const { intents } = intentsFromSpecs(doc.specs ?? [], circuit);
+	const run = new Run(circuit, { values, superposed: inputs.superposed }, { maxAmplitudeQubits: SERVER_MAX_AMPLITUDE_QUBITS, amplitudeKeyframeBytes: 64 * 2 ** 20, intents });
 	if (run.stopped)
 		unprocessable(`${run.stopped.reason}. The server's amplitude engine stops at ${SERVER_MAX_AMPLITUDE_QUBITS} qubits; run it in the workbench (its limit is higher) and save the trace from there.`);
 	const label = (q: number) => {
