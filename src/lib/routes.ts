@@ -30,6 +30,8 @@ export const routes = {
 	report: (slug: string, id: string) => `/teams/${enc(slug)}/reports/${enc(id)}`,
 	devOutbox: () => '/dev/outbox',
 	api: {
+		circuitExport: (slug: string, id: string, version?: number) => `/api/teams/${enc(slug)}/circuits/${enc(id)}/export${version ? `?version=${version}` : ''}`,
+		circuitChecks: (slug: string, id: string) => `/api/teams/${enc(slug)}/circuits/${enc(id)}/checks`,
 		me: () => '/api/me',
 		teams: () => '/api/teams',
 		teamMembers: (slug: string) => `/api/teams/${enc(slug)}/members`,

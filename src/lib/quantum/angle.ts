@@ -357,7 +357,7 @@ export function parseRadians(expr: string, scope: AngleScope = {}): Angle {
 	try {
 		node = math.parse(expr);
 	} catch (err) {
-		throw new SyntaxError(`cannot parse angle "${expr}": ${(err as Error).message}`);
+		throw new SyntaxError(`cannot parse angle "${expr}": ${(err as Error).message}`, { cause: err });
 	}
 	const sym = walk(node, scope);
 	if (sym) {
@@ -377,7 +377,7 @@ export function parseTurns(expr: string, scope: AngleScope = {}): Angle {
 	try {
 		node = math.parse(expr);
 	} catch (err) {
-		throw new SyntaxError(`cannot parse angle "${expr}": ${(err as Error).message}`);
+		throw new SyntaxError(`cannot parse angle "${expr}": ${(err as Error).message}`, { cause: err });
 	}
 	const sym = walk(node, scope);
 	if (sym && sym.piPow === 0) {
@@ -395,7 +395,7 @@ function evaluateFloat(node: MathNode, scope: AngleScope, expr: string): number 
 	try {
 		value = node.compile().evaluate(numericScope);
 	} catch (err) {
-		throw new SyntaxError(`cannot evaluate angle "${expr}": ${(err as Error).message}`);
+		throw new SyntaxError(`cannot evaluate angle "${expr}": ${(err as Error).message}`, { cause: err });
 	}
 	if (typeof value !== 'number' || !Number.isFinite(value)) throw new SyntaxError(`angle "${expr}" is not a finite real number`);
 	return value;

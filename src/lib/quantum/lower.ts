@@ -253,7 +253,6 @@ export function lowerCircuit(input: CircuitDocument | unknown, options: Lowering
 		if (i < 0 || i >= r.size) throw new LoweringError(`index ${i} out of range for register "${r.name}" of size ${r.size}`, `${path}.index`);
 		return r.offset + i;
 	};
-	const qubitsOf = (r: PlacedRegister): number[] => Array.from({ length: r.size }, (_, i) => r.offset + i);
 	const scopeOf = (env: Env): AngleScope => {
 		const s: AngleScope = {};
 		for (const [k, v] of env.ints) s[k] = { int: BigInt(v) };

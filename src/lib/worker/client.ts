@@ -2,7 +2,7 @@
 // terminated and a fresh one started, so the page never waits on a runaway computation.
 import type { WorkerRequest, WorkerResponse } from './protocol';
 
-type Pending = { resolve: (r: WorkerResponse) => void; reject: (e: Error) => void };
+type Pending = { resolve: (r: WorkerResponse) => void; reject: (e: Error) => void; progress?: (done: number, total: number) => void };
 type Body<T> = T extends unknown ? Omit<T, 'id'> : never;
 
 export class EngineClient {
@@ -15,6 +15,7 @@ export class EngineClient {
 		w.onmessage = (e: MessageEvent<WorkerResponse>) => {
 			const p = this.#pending.get(e.data.id);
 			if (!p) return;
+			if (e.data.type === 'progress') return p.progress?.(e.data.done, e.data.total);
 			this.#pending.delete(e.data.id);
 			p.resolve(e.data);
 		};
@@ -25,11 +26,11 @@ export class EngineClient {
 		return w;
 	}
 
-	request(body: Body<WorkerRequest>): Promise<WorkerResponse> {
+	request(body: Body<WorkerRequest>, progress?: (done: number, total: number) => void): Promise<WorkerResponse> {
 		this.#worker ??= this.#spawn();
 		const id = this.#next++;
 		return new Promise((resolve, reject) => {
-			this.#pending.set(id, { resolve, reject });
+			this.#pending.set(id, { resolve, reject, progress });
 			this.#worker!.postMessage({ ...body, id } as WorkerRequest);
 		});
 	}

@@ -6,6 +6,7 @@ import { formatTurns, toTurns, toTurnsSigned, type Angle, type SignedAngle } fro
 import { gateAt, gateProvenance, type GateView, type LoweredCircuit } from '$lib/quantum/circuit';
 import { parseInputValue } from './inputs';
 import { evaluateSpec, parseSpec, SpecError } from '$lib/quantum/check/spec';
+import { checkCircuit, countResources, type InputChoice } from '$lib/quantum/check/index';
 import type { RegisterIntent } from '$lib/quantum/intent';
 import type { DialQubit } from '$lib/components/dials/dial-model';
 import type { BreakpointSpec, FrameView, GateRow, LedgerView, PositionView, RunSummary, SeekKind, WorkerRequest, WorkerResponse } from './protocol';
@@ -92,6 +93,7 @@ export class EngineSession {
 			stopped: this.run.stopped,
 			warnings: [...problems, ...this.run.intentWarnings, ...this.run.expectations.warnings.map((w) => w.message)],
 			keyframeChecksums: this.run.keyframeChecksums,
+			resources: countResources(c),
 			millis: Date.now() - t0
 		};
 	}
@@ -247,9 +249,32 @@ export function toFrameView(f: TraceFrame, position: PositionView): FrameView {
 	};
 }
 
+/** Run the checker (sweep + proof) for the document's specs; progress goes to `progress`. */
+export function runCheck(req: Extract<WorkerRequest, { type: 'check' }>, progress: (done: number, total: number) => void): WorkerResponse {
+	const t0 = Date.now();
+	const c = lowerCircuit(req.doc);
+	const specs = req.doc.specs ?? [];
+	if (!specs.length) return { id: req.id, type: 'error', message: 'Write a spec first (left panel), e.g. "b = a + b mod 8": a check compares the circuit with it.' };
+	const choice: InputChoice =
+		req.inputs.mode === 'all' ? { mode: 'all' } : req.inputs.mode === 'random' ? { mode: 'random', count: Math.max(1, Math.min(100_000, req.inputs.count)), seed: req.inputs.seed } : { mode: 'auto', sample: 1000, seed: 1 };
+	let last = 0;
+	const report = checkCircuit(c, specs, {
+		inputs: choice,
+		onProgress: (done, total) => {
+			const now = Date.now();
+			if (now - last > 60 || done === total) {
+				last = now;
+				progress(done, total);
+			}
+		}
+	});
+	return { id: req.id, type: 'checked', report, millis: Date.now() - t0 };
+}
+
 /** Serve one request against the current session (the worker's message handler). */
-export function handleRequest(session: EngineSession | null, req: WorkerRequest): { session: EngineSession | null; response: WorkerResponse } {
+export function handleRequest(session: EngineSession | null, req: WorkerRequest, progress: (done: number, total: number) => void = () => {}): { session: EngineSession | null; response: WorkerResponse } {
 	try {
+		if (req.type === 'check') return { session, response: runCheck(req, progress) };
 		if (req.type === 'load') {
 			const s = new EngineSession(req);
 			return { session: s, response: { id: req.id, type: 'loaded', summary: s.summary, frame: s.frame(0) } };

@@ -6,7 +6,8 @@ import type { WorkerRequest } from './protocol';
 let session: EngineSession | null = null;
 
 self.onmessage = (e: MessageEvent<WorkerRequest>) => {
-	const out = handleRequest(session, e.data);
+	const id = e.data.id;
+	const out = handleRequest(session, e.data, (done, total) => (self as unknown as Worker).postMessage({ id, type: 'progress', done, total }));
 	session = out.session;
 	(self as unknown as Worker).postMessage(out.response);
 };

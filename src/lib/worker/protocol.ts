@@ -3,6 +3,7 @@
 // Angles in the view types are turns: a number for drawing and an exact text such as "5/16".
 import type { CircuitDocument } from '$lib/quantum/circuit';
 import type { DialQubit } from '$lib/components/dials/dial-model';
+import type { CheckReport, ResourceCounts } from '$lib/quantum/check/index';
 
 export interface RunRequestInputs {
 	/** Decimal (or 0b… binary) value per register. */
@@ -24,7 +25,11 @@ export type WorkerRequest =
 	| { id: number; type: 'frame'; step: number }
 	| { id: number; type: 'ledger'; qubit: number; step: number }
 	| { id: number; type: 'seek'; from: number; kind: SeekKind; breakpoints?: BreakpointSpec[] }
-	| { id: number; type: 'gates'; from: number; to: number };
+	| { id: number; type: 'gates'; from: number; to: number }
+	| { id: number; type: 'check'; doc: CircuitDocument; inputs: CheckInputChoice };
+
+/** Which inputs a check covers: every basis input, a seeded random sample, or the automatic choice. */
+export type CheckInputChoice = { mode: 'auto' } | { mode: 'all' } | { mode: 'random'; count: number; seed: number };
 
 export interface BlockView {
 	index: number;
@@ -52,6 +57,7 @@ export interface RunSummary {
 	stopped: { step: number; reason: string } | null;
 	warnings: string[];
 	keyframeChecksums: { step: number; checksum: string }[];
+	resources: ResourceCounts;
 	millis: number;
 }
 
@@ -106,6 +112,8 @@ export type WorkerResponse =
 	| { id: number; type: 'ledger'; ledger: LedgerView }
 	| { id: number; type: 'seek'; step: number; reason: string | null; breakpointId: string | null }
 	| { id: number; type: 'gates'; gates: GateRow[]; truncated: boolean }
+	| { id: number; type: 'progress'; done: number; total: number }
+	| { id: number; type: 'checked'; report: CheckReport; millis: number }
 	| { id: number; type: 'error'; message: string; path?: string };
 
 export interface GateRow {

@@ -3,7 +3,7 @@ import { describe, expect, it } from 'vitest';
 import { importQasm } from './import.js';
 import { QasmError } from './lexer.js';
 import { lowerCircuit } from '../lower.js';
-import { gateAt } from '../circuit.js';
+import { gateAt, type GateItem } from '../circuit.js';
 import { circuitUnitary, unitaryDistance, type DenseUnitary } from '../check/equivalence.js';
 
 const fixture = (name: string) => readFileSync(new URL(`./fixtures/${name}`, import.meta.url), 'utf8');
@@ -151,7 +151,7 @@ describe('gates as unitaries (up to global phase)', () => {
 });
 
 describe('exact angles', () => {
-	const items = (text: string) => importQasm(text).document.body;
+	const items = (text: string) => importQasm(text).document.body as GateItem[];
 	it('cu1(pi/8) is cp of 1/16 turn; t is p of 1/8 turn; z is p of 1/2 turn', () => {
 		const b = items('OPENQASM 2.0;\ninclude "qelib1.inc";\nqreg q[2];\ncu1(pi/8) q[0], q[1];\nt q[0];\nz q[1];\ntdg q[0];\n');
 		expect(b.map((i) => [i.gate, i.angle])).toEqual([
@@ -191,7 +191,7 @@ describe('constructs', () => {
 			'38:1: measure skipped: the checker reads the final state directly',
 			'39:1: reset skipped: qubits start in |0⟩ and mid-circuit reset is not simulated'
 		]);
-		const body = r.document.body;
+		const body = r.document.body as GateItem[];
 		// `h a;` broadcasts to a[0], a[1]; `cx a, b;` pairs a[i] with b[i].
 		expect(body.slice(0, 4).map((i) => [i.gate, i.qubits.map((q) => `${q.register}${q.index}`).join(' ')])).toEqual([
 			['h', 'a0'],
@@ -225,7 +225,7 @@ describe('constructs', () => {
 			{ name: 'flag', size: 1 }
 		]);
 		expect(r.warnings.map((w) => w.line)).toEqual([33, 34, 35, 36]);
-		const at = (line: number) => r.document.body.filter((i) => i.source?.line === line).map((i) => [i.gate, i.angle ?? '']);
+		const at = (line: number) => (r.document.body as GateItem[]).filter((i) => i.source?.line === line).map((i) => [i.gate, i.angle ?? '']);
 		expect(at(15)).toEqual([['cp', '1/2^4 turn']]);
 		expect(at(16)).toEqual([['ccx', '']]);
 		expect(at(17)).toEqual([['x', ''], ['cx', ''], ['x', '']]);
