@@ -22,5 +22,7 @@ export const config = {
 	origin: read('ORIGIN', 'http://127.0.0.1:3000'),
 	/** The development outbox page lists caught mail; never on in production. */
 	devOutbox: read('PW_DEV_OUTBOX', '0') === '1',
-	production: read('NODE_ENV', 'development') === 'production'
+	production: read('NODE_ENV', 'development') === 'production',
+	/** Serves /bench/* pages for `npm run bench` (never set in production). */
+	benchPages: read('PW_BENCH_PAGES', '0') === '1'
 };

@@ -11,6 +11,7 @@ import { lowerCircuit } from '../lower.js';
 import { applyLedgerGate, buildLedgerTables, createContributionLog, createLedgerState } from '../ledger.js';
 import { Run } from '../run.js';
 import type { CcpLowering, CircuitDocument } from '../circuit.js';
+import { checkBenches } from './check-benches.js';
 
 interface Figure {
 	name: string;
@@ -177,6 +178,9 @@ for (const lowering of ['native', 'no-ancilla'] as const) {
 		}
 	});
 }
+
+// The checker's benches (proofs of 32- and 64-bit multipliers, sweep throughput, import).
+benches.push(...checkBenches);
 
 const filter = (globalThis as { process?: { argv?: string[] } }).process?.argv?.[2];
 for (const b of benches) {

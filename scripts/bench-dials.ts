@@ -1,0 +1,66 @@
+// Frame time of the dial board with 256 qubits while playing, measured in Debian's Chromium
+// against the built app. Prints `bench …` lines like the core benches; the baseline is the same
+// page's frame interval with nothing changing, measured in the same run.
+import { spawn } from 'node:child_process';
+import { existsSync } from 'node:fs';
+import { chromium } from '@playwright/test';
+
+const port = 4390 + Math.floor(Math.random() * 200);
+if (!existsSync('build/handler.js')) {
+	console.error('bench dials: no build/ yet; run `npx vite build` (npm start or npm test make one)');
+	process.exit(1);
+}
+const server = spawn('node', ['build'], { env: { ...process.env, PORT: String(port), HOST: '127.0.0.1', ORIGIN: `http://127.0.0.1:${port}`, PW_BENCH_PAGES: '1' }, stdio: 'ignore' });
+const stop = () => server.kill();
+try {
+	for (let i = 0; i < 100; i++) {
+		try {
+			const r = await fetch(`http://127.0.0.1:${port}/`);
+			if (r.ok) break;
+		} catch {
+			/* not up yet */
+		}
+		await new Promise((r) => setTimeout(r, 100));
+	}
+	const browser = await chromium.launch({
+		executablePath: '/usr/bin/chromium',
+		args: ['--no-sandbox', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--no-first-run', '--disable-quic', '--use-angle=swiftshader', '--enable-unsafe-swiftshader']
+	});
+	const page = await browser.newPage({ viewport: { width: 1400, height: 900 } });
+	const measure = (ms: number) =>
+		page.evaluate(
+			(ms) =>
+				new Promise<{ avg: number; p95: number; frames: number }>((done) => {
+					const xs: number[] = [];
+					let last = performance.now();
+					const end = last + ms;
+					const f = (t: number) => {
+						xs.push(t - last);
+						last = t;
+						if (t < end) requestAnimationFrame(f);
+						else {
+							xs.sort((a, b) => a - b);
+							done({ avg: xs.reduce((a, b) => a + b, 0) / xs.length, p95: xs[Math.floor(xs.length * 0.95)], frames: xs.length });
+						}
+					};
+					requestAnimationFrame(f);
+				}),
+			ms
+		);
+	// Baseline: an empty page's frame interval in the same browser (the display's own pace).
+	await page.goto(`http://127.0.0.1:${port}/`);
+	await page.waitForTimeout(500);
+	const idle = await measure(2000);
+	console.log(`bench empty page, mean frame: ${idle.avg.toFixed(2)} ms (the frame pace of this headless browser)`);
+	for (const n of [256, 1024]) {
+		await page.goto(`http://127.0.0.1:${port}/bench/dials?qubits=${n}`);
+		await page.waitForFunction(() => (window as unknown as { benchReady?: () => boolean }).benchReady?.() === true, null, { timeout: 30_000 });
+		await page.waitForTimeout(1000);
+		const playing = await measure(4000);
+		console.log(`bench dial board ${n} qubits playing, mean frame: ${playing.avg.toFixed(2)} ms (ratio ${(playing.avg / idle.avg).toPrecision(3)} vs empty page)`);
+		console.log(`bench dial board ${n} qubits playing, p95 frame: ${playing.p95.toFixed(2)} ms`);
+	}
+	await browser.close();
+} finally {
+	stop();
+}
