@@ -2,6 +2,11 @@ import { baseURL } from '../../playwright.config';
 import { expect, test } from '@playwright/test';
 import { FAULT_INPUTS, faultyAdder, makeCrew, pushTrace, TINY_PNG, type Crew } from './support/debugging';
 import { demo, signInInBrowser } from './support/demo';
+import { formHeaders } from './support/accounts';
+import { execFile } from 'node:child_process';
+import { mkdtemp, writeFile } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
 
 // Snapshots checked by their bytes, report status rules and stale edits, server-computed
 // summaries, and a replay that does not reproduce its saved checksums.
@@ -130,4 +135,29 @@ test('a replay whose recomputed checksums differ from the saved ones is flagged;
 	await expect(warn).toBeVisible({ timeout: 20_000 });
 	await expect(warn).toContainText('This replay does not reproduce the saved trace.');
 	await expect(warn).toContainText('saved 0badf00d');
+});
+
+test('phasewright push uploads a failing circuit as a trace and opens a report at its divergence (exit 1)', async () => {
+	test.setTimeout(60_000);
+	const res = await crew.ctx.engineer.post(`/teams/${crew.slug}/tokens?/create`, { form: { name: `ci-${Date.now()}`, role: 'engineer' }, headers: { origin: formHeaders.origin, accept: 'application/json', 'x-sveltekit-action': 'true' } });
+	const token = (JSON.parse((await res.json()).data) as unknown[]).find((v) => typeof v === 'string' && /^pw_[a-z2-7]{32}$/.test(v)) as string;
+	const dir = await mkdtemp(join(tmpdir(), 'pw-push-'));
+	const file = join(dir, 'adder.json');
+	await writeFile(file, JSON.stringify(faultyAdder(`CI adder ${Date.now()}`)));
+	const run = await new Promise<{ code: number; stdout: string; stderr: string }>((resolve) =>
+		execFile(process.execPath, ['--import', 'tsx', 'src/cli/push.ts', file, '--spec', 'b = b + c*a mod 16', '--input', 'c=1,a=2', '--server', baseURL, '--token', token, '--json'], (err, stdout, stderr) =>
+			resolve({ code: err ? Number((err as { code?: number }).code ?? 2) : 0, stdout, stderr })
+		)
+	);
+	expect(run.code, run.stderr).toBe(1);
+	const out = JSON.parse(run.stdout);
+	expect(out.ok).toBe(false);
+	const report = (await (await crew.ctx.viewer.get(`/api/teams/${crew.slug}/reports/${out.report.id}`)).json()).report;
+	expect(report.step).toBe(13);
+	expect(report.severity).toBe('high');
+	expect(report.descriptionHtml).toContain('b = b + c*a mod 16');
+	const trace = (await (await crew.ctx.viewer.get(`/api/teams/${crew.slug}/traces/${out.trace.id}`)).json()).trace;
+	expect(trace.computedBy).toBe('server');
+	expect(trace.inputs.values).toEqual({ c: '1', a: '2' });
+	expect(trace.firstDivergence.label).toBe('b[3]');
 });
