@@ -8,17 +8,24 @@ test('sign-in: five wrong passwords, then the account is held back with a clear 
 	await c.dispose();
 
 	await page.goto('/signin');
+	await page.waitForFunction(() => document.documentElement.dataset.hydrated === 'true');
+	// Each attempt waits for its own answer: the alert text alone is the same every time.
+	const submit = () =>
+		Promise.all([
+			page.waitForResponse((r) => new URL(r.url()).pathname === '/signin' && r.request().method() === 'POST'),
+			page.getByRole('button', { name: 'Sign in' }).click()
+		]);
 	for (let i = 0; i < 5; i++) {
 		await page.getByLabel('E-mail').fill(email);
 		await page.getByLabel('Password').fill(`wrong-guess-${i}`);
-		await page.getByRole('button', { name: 'Sign in' }).click();
+		await submit();
 		// Generic: the same words as for an address with no account.
 		await expect(page.getByRole('alert')).toHaveText('That e-mail and password do not match an account.');
 	}
 	// Now even the right password is refused until the window passes.
 	await page.getByLabel('E-mail').fill(email);
 	await page.getByLabel('Password').fill(PASSWORD);
-	await page.getByRole('button', { name: 'Sign in' }).click();
+	await submit();
 	await expect(page.getByRole('alert')).toHaveText(/^Too many attempts; try again in \d+ s\.$/);
 	await expect(page).toHaveURL(/\/signin/);
 
