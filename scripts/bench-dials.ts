@@ -27,34 +27,38 @@ try {
 		args: ['--no-sandbox', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--no-first-run', '--disable-quic', '--use-angle=swiftshader', '--enable-unsafe-swiftshader']
 	});
 	const page = await browser.newPage({ viewport: { width: 1400, height: 900 } });
-	const measure = (ms: number) =>
-		page.evaluate(
-			(ms) =>
-				new Promise<{ avg: number; p95: number; frames: number }>((done) => {
-					const xs: number[] = [];
-					let last = performance.now();
-					const end = last + ms;
-					const f = (t: number) => {
-						xs.push(t - last);
-						last = t;
-						if (t < end) requestAnimationFrame(f);
-						else {
-							xs.sort((a, b) => a - b);
-							done({ avg: xs.reduce((a, b) => a + b, 0) / xs.length, p95: xs[Math.floor(xs.length * 0.95)], frames: xs.length });
-						}
-					};
-					requestAnimationFrame(f);
-				}),
-			ms
-		);
+	// Written as text: tsx would wrap a function literal with helpers the page does not have.
+	const MEASURE = `(ms) => new Promise((done) => {
+		const xs = [];
+		let last = performance.now();
+		const end = last + ms;
+		const f = (t) => {
+			xs.push(t - last);
+			last = t;
+			if (t < end) requestAnimationFrame(f);
+			else {
+				xs.sort((a, b) => a - b);
+				done({ avg: xs.reduce((a, b) => a + b, 0) / xs.length, p95: xs[Math.floor(xs.length * 0.95)], frames: xs.length });
+			}
+		};
+		requestAnimationFrame(f);
+	})`;
+	const measure = (ms: number) => page.evaluate(`(${MEASURE})(${ms})`) as Promise<{ avg: number; p95: number; frames: number }>;
 	// Baseline: an empty page's frame interval in the same browser (the display's own pace).
 	await page.goto(`http://127.0.0.1:${port}/`);
 	await page.waitForTimeout(500);
 	const idle = await measure(2000);
 	console.log(`bench empty page, mean frame: ${idle.avg.toFixed(2)} ms (the frame pace of this headless browser)`);
+	{
+		await page.goto(`http://127.0.0.1:${port}/bench/dials?qubits=256&static=1`);
+		await page.waitForFunction('window.benchReady && window.benchReady() === true', null, { timeout: 30_000 });
+		await page.waitForTimeout(1000);
+		const still = await measure(3000);
+		console.log(`bench dial board 256 qubits standing still, mean frame: ${still.avg.toFixed(2)} ms (ratio ${(still.avg / idle.avg).toPrecision(3)} vs empty page)`);
+	}
 	for (const n of [256, 1024]) {
 		await page.goto(`http://127.0.0.1:${port}/bench/dials?qubits=${n}`);
-		await page.waitForFunction(() => (window as unknown as { benchReady?: () => boolean }).benchReady?.() === true, null, { timeout: 30_000 });
+		await page.waitForFunction('window.benchReady && window.benchReady() === true', null, { timeout: 30_000 });
 		await page.waitForTimeout(1000);
 		const playing = await measure(4000);
 		console.log(`bench dial board ${n} qubits playing, mean frame: ${playing.avg.toFixed(2)} ms (ratio ${(playing.avg / idle.avg).toPrecision(3)} vs empty page)`);

@@ -3,7 +3,7 @@
 //
 // Angles are in turns; a dial's 0 is at twelve o'clock and angles grow clockwise, as a
 // reader expects of a dial (the direction is stated in the board's legend).
-import { Application, Circle, Container, Graphics, Text, type FederatedPointerEvent } from 'pixi.js';
+import { Application, BitmapText, Circle, Container, Graphics, Text, type FederatedPointerEvent } from 'pixi.js';
 import {
 	groupByRegister,
 	isDiverged,
@@ -34,10 +34,17 @@ const ANIMATION_MS = 220;
 interface Dial {
 	q: DialQubit;
 	root: Container;
+	/** Face, hub and title: cached as one texture, redrawn only when the face changes. */
+	still: Container;
 	face: Graphics;
-	hand: Graphics;
-	title: Text;
-	sub: Text;
+	/** Divergence arc: redrawn only when a move ends. */
+	arc: Graphics;
+	/** Needle drawn once pointing up; turned and scaled by its transform, coloured by tint. */
+	needle: Graphics;
+	/** Holds the expected-angle marker at twelve o'clock; turned by its transform. */
+	expected: Container;
+	title: BitmapText;
+	sub: BitmapText;
 	shown: number; // angle currently drawn (turns)
 	from: number;
 	to: number;
@@ -68,12 +75,16 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 	await app.init({
 		resizeTo: host,
 		background: C.background,
-		antialias: true,
+		antialias: false,
 		preserveDrawingBuffer: true,
 		preference: 'webgl',
 		autoDensity: true,
-		resolution: Math.min(2, globalThis.devicePixelRatio || 1)
+		resolution: Math.min(2, globalThis.devicePixelRatio || 1),
+		// We draw on demand (below): a board standing still costs nothing, which matters most
+		// where WebGL runs in software.
+		autoStart: false
 	});
+	app.ticker.stop();
 	host.appendChild(app.canvas);
 	app.canvas.setAttribute('aria-hidden', 'true');
 
@@ -89,16 +100,23 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 	let selected: number | null = null;
 	let lodSmall = false;
 
-	// --- frame statistics (time between rendered frames) ---
+	// --- the frame loop: advance animations, render only when something changed ---
 	const intervals: number[] = [];
 	let lastFrame = performance.now();
-	app.ticker.add(() => {
-		const now = performance.now();
+	let dirty = true;
+	let raf = 0;
+	const frame = (now: number) => {
 		intervals.push(now - lastFrame);
 		lastFrame = now;
 		if (intervals.length > 240) intervals.shift();
-		step(now);
-	});
+		if (step(now) || dirty) {
+			dirty = false;
+			app.renderer.render(app.stage);
+		}
+		raf = requestAnimationFrame(frame);
+	};
+	raf = requestAnimationFrame(frame);
+	const invalidate = () => (dirty = true);
 
 	function drawFace(d: Dial) {
 		const q = d.q;
@@ -125,33 +143,37 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 			if (q.bit === 1) g.circle(0, 0, 11).fill({ color: C.paper });
 			else g.circle(0, 0, 11).stroke({ width: 2, color: C.tick });
 		}
+		if (d.still.isCachedAsTexture) d.still.updateCacheTexture();
+		else d.still.cacheAsTexture({ resolution: 2, antialias: true });
 	}
 
+	// Per frame only transforms change (rotation, scale, tint): no geometry is rebuilt while a
+	// needle moves, which keeps hundreds of dials cheap.
 	function drawHand(d: Dial) {
 		const q = d.q;
-		const g = d.hand;
-		g.clear();
-		if (q.kind === 'classical') return;
-		const toXY = (turns: number, r: number) => {
-			const a = turns * Math.PI * 2 - Math.PI / 2;
-			return [Math.cos(a) * r, Math.sin(a) * r] as const;
-		};
+		const classical = q.kind === 'classical';
+		d.needle.visible = !classical;
+		d.expected.visible = !classical && q.expected !== undefined;
+		d.arc.clear();
+		if (classical) return;
 		const diverged = isDiverged(q);
+		d.needle.rotation = d.shown * Math.PI * 2;
+		d.needle.scale.y = Math.max(0.08, Math.min(1, q.coherence ?? 1));
+		d.needle.tint = diverged ? C.diverged : C.needle;
 		if (q.expected !== undefined) {
+			d.expected.rotation = q.expected * Math.PI * 2;
 			if (diverged && !d.animating) {
 				// The arc from expected to actual, the short way round.
 				const delta = shortestTurn(q.expected, d.shown);
 				const a0 = q.expected * Math.PI * 2 - Math.PI / 2;
 				const a1 = a0 + delta * Math.PI * 2;
-				g.arc(0, 0, RADIUS - 10, Math.min(a0, a1), Math.max(a0, a1)).stroke({ width: 4, color: C.diverged, alpha: 0.85 });
+				d.arc.arc(0, 0, RADIUS - 10, Math.min(a0, a1), Math.max(a0, a1)).stroke({ width: 4, color: C.diverged, alpha: 0.85 });
 			}
-			const [ex, ey] = toXY(q.expected, RADIUS);
-			g.circle(ex, ey, 5).stroke({ width: 2, color: C.expectedLight });
 		}
-		const len = (RADIUS - 5) * Math.max(0.08, Math.min(1, q.coherence ?? 1));
-		const [nx, ny] = toXY(d.shown, len);
-		g.moveTo(0, 0).lineTo(nx, ny).stroke({ width: 3, color: diverged ? C.diverged : C.needle, cap: 'round' });
-		g.circle(0, 0, 3.5).fill({ color: C.paper });
+	}
+
+	function turnNeedle(d: Dial) {
+		d.needle.rotation = d.shown * Math.PI * 2;
 	}
 
 	function subText(q: DialQubit): string {
@@ -183,40 +205,52 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 			root.cursor = 'pointer';
 			root.hitArea = new Circle(0, 0, RADIUS + 6);
 			const face = new Graphics();
-			const hand = new Graphics();
-			const title = new Text({ text: `${q.register}[${q.index}]`, style: { fontFamily: 'IBM Plex Mono', fontSize: 11, fill: C.paper } });
+			const arc = new Graphics();
+			const needle = new Graphics();
+			needle.moveTo(0, 0).lineTo(0, -(RADIUS - 5)).stroke({ width: 3, color: 0xffffff, cap: 'round' });
+			const expected = new Container();
+			expected.addChild(new Graphics().circle(0, -RADIUS, 5).stroke({ width: 2, color: C.expectedLight }));
+			const hub = new Graphics().circle(0, 0, 3.5).fill({ color: C.paper });
+			const title = new BitmapText({ text: `${q.register}[${q.index}]`, style: { fontFamily: 'IBM Plex Mono', fontSize: 11, fill: C.paper } });
 			title.anchor.set(0.5, 0);
 			title.position.set(0, RADIUS + 8);
-			const sub = new Text({ text: '', style: { fontFamily: 'IBM Plex Mono', fontSize: 10, fill: C.tick } });
+			const sub = new BitmapText({ text: '', style: { fontFamily: 'IBM Plex Mono', fontSize: 10, fill: C.tick } });
 			sub.anchor.set(0.5, 0);
 			sub.position.set(0, RADIUS + 21);
-			root.addChild(face, hand, title, sub);
+			const still = new Container();
+			still.addChild(face, hub, title);
+			root.addChild(still, arc, expected, needle, sub);
 			const qubit = q.qubit;
 			root.on('pointertap', () => opts.onselect?.(qubit));
 			root.on('pointerover', (e: FederatedPointerEvent) => opts.onhover?.(qubit, e.global.x, e.global.y));
 			root.on('pointerout', () => opts.onhover?.(null, 0, 0));
 			world.addChild(root);
 			const a = q.angle ?? 0;
-			dials.set(q.qubit, { q, root, face, hand, title, sub, shown: a, from: a, to: a, t0: 0, animating: false, faceKey: '' });
+			dials.set(q.qubit, { q, root, still, face, arc, needle, expected, title, sub, shown: a, from: a, to: a, t0: 0, animating: false, faceKey: '' });
 		}
 		cull();
 	}
 
-	function step(now: number) {
+	/** Advance every moving needle; true when anything moved. */
+	function step(now: number): boolean {
+		let moved = false;
 		for (const d of dials.values()) {
 			if (!d.animating || !d.root.visible) continue;
+			moved = true;
 			const t = Math.min(1, (now - d.t0) / ANIMATION_MS);
 			const e = 1 - (1 - t) * (1 - t) * (1 - t);
 			d.shown = (((d.from + shortestTurn(d.from, d.to) * e) % 1) + 1) % 1;
 			if (t >= 1) {
 				d.shown = d.to;
 				d.animating = false;
-			}
-			drawHand(d);
+				drawHand(d);
+			} else turnNeedle(d);
 		}
+		return moved;
 	}
 
 	function cull() {
+		invalidate();
 		const s = world.scale.x;
 		const small = RADIUS * s < 14;
 		const lodChanged = small !== lodSmall;
@@ -291,6 +325,7 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 					d.shown = d.to = target;
 					d.animating = false;
 				}
+				invalidate();
 				const text = subText(q);
 				if (d.sub.text !== text) d.sub.text = text;
 				if (d.root.visible) {
@@ -316,6 +351,7 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 			app.renderer.render(app.stage);
 		},
 		destroy() {
+			cancelAnimationFrame(raf);
 			app.canvas.removeEventListener('wheel', onWheel);
 			app.destroy(true, { children: true });
 		}
