@@ -7,6 +7,7 @@ import { readFileSync, writeFileSync } from 'node:fs';
 import { pathToFileURL } from 'node:url';
 import { importQasm } from '../lib/quantum/qasm/import.js';
 import { exportQasm } from '../lib/quantum/qasm/export.js';
+import { runPush } from './push.js';
 import { QasmError } from '../lib/quantum/qasm/lexer.js';
 import { lowerCircuit } from '../lib/quantum/lower.js';
 import { readCircuitDocument, serializeCircuitDocument } from '../lib/quantum/schema.js';
@@ -37,6 +38,8 @@ const USAGE = `usage: phasewright <command> [options]
   run FILE --input a=5,b=3 [--engine ledger|amplitudes] [--step N] [--json]
   count FILE [--json]
   convert IN OUT            (.qasm = OpenQASM 2 unless its header says 3, .qasm3 = OpenQASM 3, .json = document)
+  push FILE --spec "…" --server URL --token T [--input a=5,b=3] [--json]
+                            check, upload the trace, and open a report when it fails
 Registers read little-endian: name[0] is the least-significant bit.`;
 
 interface Args {
@@ -236,4 +239,9 @@ export function main(argv: string[], io: Io = nodeIo): number {
 	}
 }
 
-if (import.meta.url === pathToFileURL(process.argv[1] ?? '').href) process.exitCode = main(process.argv.slice(2));
+if (import.meta.url === pathToFileURL(process.argv[1] ?? '').href) {
+	const argv = process.argv.slice(2);
+	// push talks to a server, so it is the one asynchronous command.
+	if (argv[0] === 'push') void runPush(argv.slice(1)).then((code) => (process.exitCode = code));
+	else process.exitCode = main(argv);
+}
