@@ -31,11 +31,13 @@ export interface RegisterIntent {
 /** A found section: QFT block on `register` ends at `start`, inverse QFT begins at `end`. */
 export interface FourierSection {
 	register: string;
-	layout: 'swapped' | 'unswapped';
+	layout: 'swapped' | 'unswapped' | 'permuted';
+	/** Level of each qubit of the register (index 0 = LSB); when absent, from `layout`. */
+	levels?: number[];
 	start: number;
 	end: number;
-	/** Step after the inverse QFT block. */
-	after: number;
+	/** Step after the inverse QFT (null when it is not known). */
+	after: number | null;
 }
 
 /** Most distinct monomials handled per section (keeps the work bounded). */
@@ -96,15 +98,23 @@ export interface IntentExpectations {
  * input. `inputs` holds every register's start value. Events are sorted by step; merge them
  * after the library blocks' own events with {@link mergeExpectations}.
  */
-export function computeIntentExpectations(c: LoweredCircuit, intents: RegisterIntent[], inputs: ReadonlyMap<string, bigint>): IntentExpectations {
+export function computeIntentExpectations(
+	c: LoweredCircuit,
+	intents: RegisterIntent[],
+	inputs: ReadonlyMap<string, bigint>,
+	/** Sections found by other means (e.g. from the raw gates of an imported file). */
+	extraSections: FourierSection[] = []
+): IntentExpectations {
 	const warnings: string[] = [];
 	const ev = emptyEvents();
-	const sections = findFourierSections(c).filter((s) => intents.some((i) => i.register === s.register));
+	const own = findFourierSections(c);
+	const extra = extraSections.filter((x) => !own.some((o) => o.register === x.register && o.start === x.start));
+	const sections = [...own, ...extra].filter((s) => intents.some((i) => i.register === s.register));
 	const regOf = (q: number): PlacedRegister => c.registers.find((r) => q >= r.offset && q < r.offset + r.size)!;
 	for (const s of sections) {
 		const intent = intents.find((i) => i.register === s.register)!;
 		const R = c.registers.find((r) => r.name === s.register)!;
-		const level = (q: number) => (s.layout === 'swapped' ? R.size - (q - R.offset) : q - R.offset + 1);
+		const level = (q: number) => (s.levels ? s.levels[q - R.offset] : s.layout === 'swapped' ? R.size - (q - R.offset) : q - R.offset + 1);
 		const inR = (q: number) => q >= R.offset && q < R.offset + R.size;
 		const start = inputs.get(R.name) ?? 0n;
 		let finalValue: bigint;
@@ -287,7 +297,7 @@ export function computeIntentExpectations(c: LoweredCircuit, intents: RegisterIn
 			const q = R.offset + i;
 			const m = level(q);
 			ev.push(s.end, q, ExpectKind.fourier, m, modPow2(finalValue, m), 1);
-			ev.push(s.after, q, ExpectKind.classical, Number((finalValue >> BigInt(i)) & 1n), 0n, 1);
+			if (s.after !== null) ev.push(s.after, q, ExpectKind.classical, Number((finalValue >> BigInt(i)) & 1n), 0n, 1);
 		}
 	}
 	sortEvents(ev);

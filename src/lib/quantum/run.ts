@@ -27,7 +27,7 @@ import {
 import { addAngles, divergence, dyadic, floatTurns, formatRadians, formatTurns, isZeroSigned, ZERO_ANGLE, type Angle, type SignedAngle } from './angle.js';
 import { gateAt, type GateView, type LoweredCircuit } from './circuit.js';
 import { computeExpectations, ExpectKind, type ExpectationEvents } from './expect.js';
-import { computeIntentExpectations, mergeExpectations, type RegisterIntent } from './intent.js';
+import { computeIntentExpectations, mergeExpectations, type FourierSection, type RegisterIntent } from './intent.js';
 import {
 	applyLedgerGate,
 	buildLedgerTables,
@@ -66,6 +66,8 @@ export interface RunOptions {
 	tolerance?: number;
 	/** Intended final values of registers (from specs): expected angles inside hand-written Fourier sections. */
 	intents?: RegisterIntent[];
+	/** Fourier sections found from raw gates (imported files), in addition to QFT blocks. */
+	intentSections?: FourierSection[];
 }
 
 /** What one qubit holds in a frame. Angles in turns. */
@@ -262,7 +264,7 @@ export class Run {
 		const own = computeExpectations(circuit, known);
 		const intents = options.intents ?? [];
 		if (intents.length && [...known.values()].every((v) => v !== null)) {
-			const got = computeIntentExpectations(circuit, intents, known as Map<string, bigint>);
+			const got = computeIntentExpectations(circuit, intents, known as Map<string, bigint>, options.intentSections);
 			this.intentWarnings = got.warnings;
 			this.expectations = mergeExpectations(own, got.events);
 		} else this.expectations = own;

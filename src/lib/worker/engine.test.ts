@@ -1,3 +1,5 @@
+import { readFileSync } from 'node:fs';
+import { importQasm } from '$lib/quantum/qasm/import';
 import { describe, expect, it } from 'vitest';
 import { EngineSession, handleRequest, parseInputValue } from './engine';
 import { makeTemplate, plantedFaultAdder, demoMultiplier } from '$lib/components/workbench/templates';
@@ -77,5 +79,37 @@ describe('spec-based angles in a hand-written Fourier section', () => {
 					expect(s.summary.firstDivergence).toBeNull();
 					expect(s.frame(s.summary.lastStep).registerValues.b).toBe(String((b + c * a) % 16));
 				}
+	});
+});
+
+describe('an imported OpenQASM file gets the same expected angles', () => {
+	// The fixture is our hand-written 3-bit Fourier adder (Draper 2000, quant-ph/0008033).
+	const text = readFileSync('src/lib/quantum/qasm/fixtures/adder3.qasm', 'utf8');
+	const load = (src: string, values: Record<string, string>) => {
+		const doc = importQasm(src, { file: 'adder3.qasm' }).document;
+		doc.specs = ['b = a + b mod 8'];
+		return new EngineSession({ id: 1, type: 'load', doc, inputs: { values, superposed: [] } });
+	};
+
+	it('finds the QFT section in the raw gates and holds for every input of the correct file', () => {
+		for (let a = 0; a < 8; a++)
+			for (let b = 0; b < 8; b++) {
+				const s = load(text, { a: String(a), b: String(b) });
+				expect(s.summary.firstDivergence).toBeNull();
+				expect(s.frame(s.summary.lastStep).registerValues.b).toBe(String((a + b) % 8));
+			}
+		// Inside the section the table has expected angles to compare against.
+		const s = load(text, { a: '3', b: '1' });
+		const mid = s.frame(9);
+		expect(mid.qubits.filter((q) => q.register === 'b' && q.expectedText !== undefined).length).toBeGreaterThan(0);
+	});
+
+	it('stops at the faulty line when an exponent is off by one', () => {
+		const bad = text.replace('cu1(pi/2) a[1], b[2];', 'cu1(pi/4) a[1], b[2];');
+		const s = load(bad, { a: '2', b: '0' });
+		const d = s.summary.firstDivergence!;
+		expect(d.label).toBe('b[2]');
+		const line = bad.split('\n').findIndex((l) => l.startsWith('cu1(pi/4) a[1], b[2];')) + 1;
+		expect(s.position(d.step).source?.line).toBe(line);
 	});
 });

@@ -3,10 +3,13 @@
 import { lowerCircuit, LoweringError } from '$lib/quantum/lower';
 import { Run, type QubitFrame, type TraceFrame } from '$lib/quantum/run';
 import { formatTurns, toTurns, toTurnsSigned, type Angle, type SignedAngle } from '$lib/quantum/angle';
-import { gateAt, gateProvenance, type GateView, type LoweredCircuit } from '$lib/quantum/circuit';
+import { GateCode, gateAt, gateProvenance, type GateView, type LoweredCircuit } from '$lib/quantum/circuit';
 import { parseInputValue } from './inputs';
 import { evaluateSpec, parseSpec, SpecError } from '$lib/quantum/check/spec';
 import { checkCircuit, countResources, type InputChoice } from '$lib/quantum/check/index';
+import { proveCircuit } from '$lib/quantum/check/proof';
+import { specPolynomial, type IntPoly } from '$lib/quantum/check/spec';
+import { findFourierSections, type FourierSection } from '$lib/quantum/intent';
 import type { RegisterIntent } from '$lib/quantum/intent';
 import type { DialQubit } from '$lib/components/dials/dial-model';
 import type { BreakpointSpec, FrameView, GateRow, LedgerView, PositionView, RunSummary, SeekKind, WorkerRequest, WorkerResponse } from './protocol';
@@ -32,6 +35,52 @@ export function describeGate(g: GateView, c: LoweredCircuit): string {
 }
 
 export { parseInputValue };
+
+/** Gates at most scanned for QFT patterns when a circuit has no QFT blocks (imported files). */
+export const MAX_SECTION_SCAN_GATES = 200_000;
+
+/**
+ * Fourier sections of a circuit written as raw gates (an imported file): the prover recognises
+ * the QFT and inverse QFT from the gates themselves. Best effort; nothing found is no error.
+ */
+export function sectionsFromGates(c: LoweredCircuit, specTexts: string[]): FourierSection[] {
+	if (c.gateCount > MAX_SECTION_SCAN_GATES) return [];
+	try {
+		const specs = specTexts.map((t) => parseSpec(t, c.registers));
+		const inputs = new Set(specs.flatMap((s) => s.reads));
+		const outputs = new Map<string, IntPoly>();
+		for (const s of specs) {
+			const p = specPolynomial(s, c.registers, inputs);
+			if (!p) return [];
+			outputs.set(s.out, p);
+		}
+		const proof = proveCircuit(c, { inputs, outputs });
+		return proof.sections.map((x) => {
+			const r = c.registers.find((y) => y.name === x.register)!;
+			const start = x.qftGates[1] + 1;
+			let end = x.iqftGates[0];
+			let after: number | null = x.iqftGates[1] >= 0 ? x.iqftGates[1] + 1 : null;
+			if (end < 0) {
+				// The prover stopped at the wrong terms before reading the inverse QFT: it begins at
+				// the first gate after the section that is not a phase on the register.
+				const inR = (q: number) => q >= r.offset && q < r.offset + r.size;
+				end = c.gateCount;
+				for (let g = start; g < c.gateCount; g++) {
+					const k = c.kinds[g];
+					const qs = c.qubitList.subarray(c.qubitStart[g], c.qubitStart[g + 1]);
+					if (k !== GateCode.p && k !== GateCode.cp && k !== GateCode.mcp && qs.some(inR)) {
+						end = g;
+						break;
+					}
+				}
+				after = null;
+			}
+			return { register: x.register, layout: x.layout, levels: x.levels, start, end, after };
+		});
+	} catch {
+		return [];
+	}
+}
 
 /** Specs as register intents; a spec that does not parse is reported, not fatal. */
 export function intentsFromSpecs(specs: string[], c: LoweredCircuit): { intents: RegisterIntent[]; problems: string[] } {
@@ -65,7 +114,8 @@ export class EngineSession {
 			if (raw !== undefined) values[r.name] = parseInputValue(raw, r.name, r.size);
 		}
 		const { intents, problems } = intentsFromSpecs(req.doc.specs ?? [], c);
-		this.run = new Run(c, { values, superposed: req.inputs.superposed }, { keyframeInterval: req.keyframeInterval, intents });
+		const intentSections = intents.length && !findFourierSections(c).length ? sectionsFromGates(c, req.doc.specs ?? []) : [];
+		this.run = new Run(c, { values, superposed: req.inputs.superposed }, { keyframeInterval: req.keyframeInterval, intents, intentSections });
 		this.labels = [];
 		for (const r of c.registers) for (let i = 0; i < r.size; i++) this.labels[r.offset + i] = `${r.name}[${i}]`;
 		const first = this.run.divergences[0];
