@@ -142,7 +142,7 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 		if (q.kind === 'classical') {
 			if (q.bit === 1) g.circle(0, 0, 11).fill({ color: C.paper });
 			else g.circle(0, 0, 11).stroke({ width: 2, color: C.tick });
-		}
+		} else g.circle(0, 0, 3.5).fill({ color: C.paper });
 		if (d.still.isCachedAsTexture) d.still.updateCacheTexture();
 		else d.still.cacheAsTexture({ resolution: 2, antialias: true });
 	}
@@ -210,7 +210,6 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 			needle.moveTo(0, 0).lineTo(0, -(RADIUS - 5)).stroke({ width: 3, color: 0xffffff, cap: 'round' });
 			const expected = new Container();
 			expected.addChild(new Graphics().circle(0, -RADIUS, 5).stroke({ width: 2, color: C.expectedLight }));
-			const hub = new Graphics().circle(0, 0, 3.5).fill({ color: C.paper });
 			const title = new BitmapText({ text: `${q.register}[${q.index}]`, style: { fontFamily: 'IBM Plex Mono', fontSize: 11, fill: C.paper } });
 			title.anchor.set(0.5, 0);
 			title.position.set(0, RADIUS + 8);
@@ -218,7 +217,7 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 			sub.anchor.set(0.5, 0);
 			sub.position.set(0, RADIUS + 21);
 			const still = new Container();
-			still.addChild(face, hub, title);
+			still.addChild(face, title);
 			root.addChild(still, arc, expected, needle, sub);
 			const qubit = q.qubit;
 			root.on('pointertap', () => opts.onselect?.(qubit));

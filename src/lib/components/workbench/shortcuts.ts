@@ -37,7 +37,11 @@ export const SHORTCUTS: { keys: string; action: ShortcutAction; text: string }[]
 /** The action for a key event, or null. Ignores keys typed into fields. */
 export function actionForKey(e: KeyboardEvent): ShortcutAction | null {
 	const t = e.target as HTMLElement | null;
-	if (t && (t.tagName === 'INPUT' || t.tagName === 'TEXTAREA' || t.tagName === 'SELECT' || t.isContentEditable)) return null;
+	// Typing goes to fields; checkboxes, radios, ranges and buttons let the keys through.
+	const typing = t instanceof HTMLInputElement ? !['checkbox', 'radio', 'range', 'button', 'submit', 'reset'].includes(t.type) : false;
+	if (t && (typing || t.tagName === 'TEXTAREA' || t.tagName === 'SELECT' || t.isContentEditable)) return null;
+	// Space on a button presses it; leave that to the browser.
+	if (e.key === ' ' && t && (t.tagName === 'BUTTON' || (t instanceof HTMLInputElement && t.type !== 'range'))) return null;
 	const mod = e.ctrlKey || e.metaKey;
 	if (mod && (e.key === 'z' || e.key === 'Z')) return e.shiftKey ? 'redo' : 'undo';
 	if (mod && e.key === 'y') return 'redo';
