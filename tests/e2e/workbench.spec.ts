@@ -1,3 +1,4 @@
+import { readFileSync } from 'node:fs';
 import { expect, test, type Locator, type Page } from '@playwright/test';
 import { demo, signInInBrowser } from './support/demo';
 
@@ -155,4 +156,37 @@ test('a viewer gets the workbench read-only', async ({ page }) => {
 	// Stepping still works.
 	await page.getByTestId('step-forward').click();
 	await expect(page.getByTestId('step-readout')).toContainText('step 1 /');
+});
+
+test('an uploaded OpenQASM file with a wrong exponent stops at its line once a spec is given', async ({ page }) => {
+	test.setTimeout(120_000);
+	// Our hand-written 3-bit adder (Draper 2000, quant-ph/0008033) with one rotation halved.
+	const good = readFileSync('src/lib/quantum/qasm/fixtures/adder3.qasm', 'utf8');
+	const bad = good.replace('cu1(pi/2) a[1], b[2];', 'cu1(pi/4) a[1], b[2];');
+	const line = bad.split('\n').findIndex((l) => l.startsWith('cu1(pi/4) a[1], b[2];')) + 1;
+	await signInInBrowser(page, demo.engineer.email, demo.engineer.password);
+	await page.goto('/teams/halvorsen-lab/circuits');
+	await hydrated(page);
+	await page.getByLabel('File').setInputFiles({ name: `adder-${Date.now()}.qasm`, mimeType: 'text/plain', buffer: Buffer.from(bad) });
+	await page.getByRole('button', { name: 'Import' }).click();
+	await expect(page).toHaveURL(/\/circuits\/[a-z2-7]{24}/);
+	await waitForRun(page);
+	await page.getByLabel(/One per line/).fill('b = a + b mod 8');
+	await page.getByLabel(/One per line/).press('Tab');
+	await setInput(page, 'a', '2');
+	await waitForRun(page);
+	await page.getByTestId('to-divergence').click();
+	await expect(page.getByTestId('position')).toContainText(`source line ${line}`);
+	await expect(page.getByTestId('first-divergence')).toContainText('on b[2]');
+});
+
+test('a malformed OpenQASM upload is refused with file:line:column and nothing is created', async ({ page }) => {
+	await signInInBrowser(page, demo.engineer.email, demo.engineer.password);
+	await page.goto('/teams/halvorsen-lab/circuits');
+	await hydrated(page);
+	const before = await page.locator('tbody tr').count();
+	await page.getByLabel('File').setInputFiles({ name: 'broken.qasm', mimeType: 'text/plain', buffer: Buffer.from('OPENQASM 2.0;\ninclude "qelib1.inc";\nqreg q[2];\nfrob q[0];\n') });
+	await page.getByRole('button', { name: 'Import' }).click();
+	await expect(page.getByRole('alert')).toContainText('broken.qasm:4:1');
+	await expect(page.locator('tbody tr')).toHaveCount(before);
 });
