@@ -148,3 +148,22 @@ describe('runs and frames', () => {
 		expect(run.previousBoundary(add.start + 3)).toBe(add.start);
 	});
 });
+
+describe('replay checksums', () => {
+	it('cover the last frame even when the run is shorter than one keyframe interval', () => {
+		const c = lowerCircuit({
+			format: 'phasewright.circuit',
+			version: 1,
+			title: 'short',
+			registers: [{ name: 'b', size: 3 }],
+			body: [{ id: 'q', type: 'qft', register: 'b', swaps: false }]
+		});
+		const r = new Run(c, { values: { b: 5 } });
+		const last = r.keyframeChecksums[r.keyframeChecksums.length - 1];
+		expect(last.step).toBe(r.lastStep);
+		expect(last.checksum).toBe(r.frameAt(r.lastStep).checksum);
+		// A different input changes the final checksum (and so a replay of the wrong input fails).
+		const other = new Run(c, { values: { b: 6 } });
+		expect(other.keyframeChecksums.at(-1)!.checksum).not.toBe(last.checksum);
+	});
+});

@@ -397,6 +397,11 @@ export class Run {
 				}
 			} else if (amp) applyLoweredGate(amp, circuit, this.gateTables!, step);
 		}
+		// The last frame's checksum too, so a replay confirms the whole run even when it is
+		// shorter than one keyframe interval.
+		const last = this.lastStep;
+		const tail = this.keyframeChecksums[this.keyframeChecksums.length - 1];
+		if (!tail || tail.step !== last) this.keyframeChecksums.push({ step: last, checksum: this.frameAt(last).checksum });
 	}
 
 	/** Number of qubits (flat). */
