@@ -56,12 +56,19 @@ try {
 		const still = await measure(3000);
 		console.log(`bench dial board 256 qubits standing still, mean frame: ${still.avg.toFixed(2)} ms (ratio ${(still.avg / idle.avg).toPrecision(3)} vs empty page)`);
 	}
+	{
+		await page.goto(`http://127.0.0.1:${port}/bench/dials?qubits=256&board=workbench`);
+		await page.waitForFunction('window.benchReady && window.benchReady() === true', null, { timeout: 30_000 });
+		await page.waitForTimeout(1000);
+		const wb = await measure(4000);
+		console.log(`bench dial board 256 qubits playing at the workbench's board size (760×416), mean frame: ${wb.avg.toFixed(2)} ms (ratio ${(wb.avg / idle.avg).toPrecision(3)} vs empty page)`);
+	}
 	for (const n of [256, 1024]) {
 		await page.goto(`http://127.0.0.1:${port}/bench/dials?qubits=${n}`);
 		await page.waitForFunction('window.benchReady && window.benchReady() === true', null, { timeout: 30_000 });
 		await page.waitForTimeout(1000);
 		const playing = await measure(4000);
-		console.log(`bench dial board ${n} qubits playing, mean frame: ${playing.avg.toFixed(2)} ms (ratio ${(playing.avg / idle.avg).toPrecision(3)} vs empty page)`);
+		console.log(`bench dial board ${n} qubits playing on a 1400×900 board, mean frame: ${playing.avg.toFixed(2)} ms (ratio ${(playing.avg / idle.avg).toPrecision(3)} vs empty page)`);
 		console.log(`bench dial board ${n} qubits playing, p95 frame: ${playing.p95.toFixed(2)} ms`);
 	}
 	await browser.close();

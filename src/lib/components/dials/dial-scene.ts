@@ -90,6 +90,11 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 
 	const world = new Container();
 	app.stage.addChild(world);
+	// Two render groups: the faces never move, so their draw instructions are kept between
+	// frames; only the needles' group is rebuilt while they turn.
+	const facesLayer = new Container({ isRenderGroup: true });
+	const liveLayer = new Container({ isRenderGroup: true });
+	world.addChild(facesLayer, liveLayer);
 	app.stage.eventMode = 'static';
 	app.stage.hitArea = app.screen;
 
@@ -184,7 +189,10 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 	}
 
 	function build(qubits: DialQubit[]) {
-		for (const d of dials.values()) d.root.destroy({ children: true });
+		for (const d of dials.values()) {
+			d.still.destroy({ children: true });
+			d.root.destroy({ children: true });
+		}
 		dials.clear();
 		for (const h of headers) h.destroy();
 		headers.length = 0;
@@ -218,12 +226,14 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 			sub.position.set(0, RADIUS + 21);
 			const still = new Container();
 			still.addChild(face, title);
-			root.addChild(still, arc, expected, needle, sub);
+			still.position.set(p.x, p.y);
+			facesLayer.addChild(still);
+			root.addChild(arc, expected, needle, sub);
 			const qubit = q.qubit;
 			root.on('pointertap', () => opts.onselect?.(qubit));
 			root.on('pointerover', (e: FederatedPointerEvent) => opts.onhover?.(qubit, e.global.x, e.global.y));
 			root.on('pointerout', () => opts.onhover?.(null, 0, 0));
-			world.addChild(root);
+			liveLayer.addChild(root);
 			const a = q.angle ?? 0;
 			dials.set(q.qubit, { q, root, still, face, arc, needle, expected, title, sub, shown: a, from: a, to: a, t0: 0, animating: false, faceKey: '' });
 		}
@@ -262,6 +272,7 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 			const { x, y } = d.root.position;
 			const vis = x >= x0 && x <= x1 && y >= y0 && y <= y1;
 			d.root.visible = vis;
+			d.still.visible = vis;
 			d.title.visible = d.sub.visible = !small;
 			if (vis && (lodChanged || d.faceKey === '')) {
 				drawFace(d);

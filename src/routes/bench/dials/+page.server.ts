@@ -6,5 +6,5 @@ import type { PageServerLoad } from './$types';
 export const load: PageServerLoad = async ({ url }) => {
 	if (!config.benchPages) error(404, { message: 'Not found', code: 'not_found' });
 	const n = Math.max(1, Math.min(4096, Number(url.searchParams.get('qubits') ?? 256)));
-	return { qubits: n };
+	return { qubits: n, workbenchSize: url.searchParams.get('board') === 'workbench' };
 };
