@@ -107,3 +107,35 @@ describe('bin/phasewright.js', () => {
 		expect(JSON.parse(r.stdout).ok).toBe(true);
 	}, 60_000);
 });
+
+describe('phasewright equiv', () => {
+	const head = 'OPENQASM 3.0;\ninclude "stdgates.inc";\nqubit[2] c;\nqubit[1] t;\n';
+	const native = `${head}ctrl(2) @ p(pi/4) c[0], c[1], t[0];\n`;
+	// Barenco et al. 1995 (Phys. Rev. A 52, 3457), Lemma 6.1 with U = p(θ), V = p(θ/2): V on c1,
+	// CNOT, V† on c1, CNOT, V on c0 gives the doubly controlled U.
+	const half = `${head}cp(pi/8) c[1], t[0];\ncx c[0], c[1];\ncp(-pi/8) c[1], t[0];\ncx c[0], c[1];\ncp(pi/8) c[0], t[0];\n`;
+	const withAncilla = `${head}qubit[1] anc;\nccx c[0], c[1], anc[0];\ncp(pi/4) anc[0], t[0];\nccx c[0], c[1], anc[0];\n`;
+	const dirty = `${head}qubit[1] anc;\nccx c[0], c[1], anc[0];\ncp(pi/4) anc[0], t[0];\n`;
+
+	it('finds the half-angle decomposition equal to the native doubly controlled phase', () => {
+		const r = run(['equiv', 'n.qasm', 'h.qasm'], { 'n.qasm': native, 'h.qasm': half });
+		expect(r.code).toBe(0);
+		expect(r.out).toMatch(/^equivalent up to global phase/);
+	});
+	it('catches a wrong sign inside the decomposition', () => {
+		const r = run(['equiv', 'n.qasm', 'w.qasm', '--json'], { 'n.qasm': native, 'w.qasm': half.replace('cp(-pi/8)', 'cp(pi/8)') });
+		expect(r.code).toBe(1);
+		expect(JSON.parse(r.out).ok).toBe(false);
+	});
+	it('compares a lowering with an ancilla on the clean-ancilla block, and flags an ancilla left dirty', () => {
+		expect(run(['equiv', 'n.qasm', 'a.qasm', '--ancilla', 'anc'], { 'n.qasm': native, 'a.qasm': withAncilla }).code).toBe(0);
+		const r = run(['equiv', 'n.qasm', 'd.qasm', '--ancilla', 'anc', '--json'], { 'n.qasm': native, 'd.qasm': dirty });
+		expect(r.code).toBe(1);
+		expect(JSON.parse(r.out).ancillaLeak).toBeGreaterThan(0.5);
+	});
+	it('refuses circuits of different sizes with a clear message (exit 2)', () => {
+		const r = run(['equiv', 'n.qasm', 'a.qasm'], { 'n.qasm': native, 'a.qasm': withAncilla });
+		expect(r.code).toBe(2);
+		expect(r.err).toContain('must match');
+	});
+});

@@ -8,6 +8,7 @@ import { pathToFileURL } from 'node:url';
 import { importQasm } from '../lib/quantum/qasm/import.js';
 import { exportQasm } from '../lib/quantum/qasm/export.js';
 import { runPush } from './push.js';
+import { circuitUnitary, restrictToCleanAncillas, unitaryDistance } from '../lib/quantum/check/equivalence.js';
 import { QasmError } from '../lib/quantum/qasm/lexer.js';
 import { lowerCircuit } from '../lib/quantum/lower.js';
 import { readCircuitDocument, serializeCircuitDocument } from '../lib/quantum/schema.js';
@@ -38,6 +39,8 @@ const USAGE = `usage: phasewright <command> [options]
   run FILE --input a=5,b=3 [--engine ledger|amplitudes] [--step N] [--json]
   count FILE [--json]
   convert IN OUT            (.qasm = OpenQASM 2 unless its header says 3, .qasm3 = OpenQASM 3, .json = document)
+  equiv A B [--ancilla REG[,REG]] [--json]
+                            compare two circuits as unitaries (≤ 10 qubits), up to global phase
   push FILE --spec "…" --server URL --token T [--input a=5,b=3] [--json]
                             check, upload the trace, and open a report when it fails
 Registers read little-endian: name[0] is the least-significant bit.`;
@@ -49,7 +52,7 @@ interface Args {
 function parseArgs(argv: string[]): Args {
 	const positional: string[] = [];
 	const flags = new Map<string, string[]>();
-	const valued = new Set(['--spec', '--inputs', '--input', '--engine', '--step', '--seed']);
+	const valued = new Set(['--spec', '--inputs', '--input', '--engine', '--step', '--seed', '--ancilla']);
 	for (let i = 0; i < argv.length; i++) {
 		const a = argv[i];
 		if (a.startsWith('--')) {
@@ -214,6 +217,33 @@ export function main(argv: string[], io: Io = nodeIo): number {
 						].join('\n')
 					);
 				return 0;
+			}
+			case 'equiv': {
+				// Two circuits as unitaries, up to global phase; --ancilla names registers of the
+				// second that must start and end in |0⟩ (a lowering with an extra qubit).
+				if (rest.length !== 2) throw new UsageError('equiv needs two FILEs');
+				const a = lower(loadDocument(rest[0], io).doc, rest[0]);
+				const b = lower(loadDocument(rest[1], io).doc, rest[1]);
+				const anc = (args.flags.get('--ancilla') ?? []).flatMap((x) => x.split(','));
+				const ancQubits = anc.flatMap((name) => {
+					const r = b.registers.find((x) => x.name === name);
+					if (!r) throw new UsageError(`--ancilla: ${rest[1]} has no register "${name}"`);
+					return Array.from({ length: r.size }, (_, i) => r.offset + i);
+				});
+				if (a.qubitCount !== b.qubitCount - ancQubits.length)
+					throw new UsageError(`${rest[0]} has ${a.qubitCount} qubits and ${rest[1]} has ${b.qubitCount}${ancQubits.length ? ` (${ancQubits.length} of them ancillas)` : ''}; they must match`);
+				const ua = circuitUnitary(a);
+				const { unitary: ub, leak } = restrictToCleanAncillas(circuitUnitary(b), ancQubits);
+				const distance = unitaryDistance(ua, ub);
+				const ok = distance <= 1e-9 && leak <= 1e-9;
+				if (json) io.out(JSON.stringify({ ok, distance, ancillaLeak: leak, qubits: a.qubitCount, note: 'compared as unitaries up to global phase; simulated, not a hardware run' }));
+				else
+					io.out(
+						`${ok ? 'equivalent' : 'NOT equivalent'} up to global phase: largest entry difference ${distance.toExponential(2)}` +
+							(ancQubits.length ? `; ancilla leak ${leak.toExponential(2)}` : '') +
+							` (${a.qubitCount} qubits, simulated)`
+					);
+				return ok ? 0 : 1;
 			}
 			case 'convert': {
 				if (rest.length !== 2) throw new UsageError('convert needs IN and OUT');

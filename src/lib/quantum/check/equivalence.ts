@@ -63,3 +63,36 @@ export function unitaryDistance(a: DenseUnitary, b: DenseUnitary): number {
 	}
 	return worst;
 }
+
+/**
+ * The block of U acting on the qubits other than `ancillas`, for inputs with every ancilla in
+ * |0⟩, and how much amplitude leaks to outputs with an ancilla not back in |0⟩ (0 when the
+ * ancillas are returned clean). Qubit order: the kept qubits, in their flat order, form the index
+ * of the result (little-endian).
+ */
+export function restrictToCleanAncillas(u: DenseUnitary, ancillas: number[]): { unitary: DenseUnitary; leak: number } {
+	const keep: number[] = [];
+	for (let q = 0; q < u.qubitCount; q++) if (!ancillas.includes(q)) keep.push(q);
+	let amask = 0;
+	for (const q of ancillas) amask |= 1 << q;
+	const spread = (k: number) => {
+		let full = 0;
+		for (let i = 0; i < keep.length; i++) if (k & (1 << i)) full |= 1 << keep[i];
+		return full;
+	};
+	const dim = 1 << keep.length;
+	const columns: Float64Array[] = [];
+	let leak = 0;
+	for (let j = 0; j < dim; j++) {
+		const col = u.columns[spread(j)];
+		const out = new Float64Array(2 * dim);
+		for (let i = 0; i < dim; i++) {
+			const r = spread(i);
+			out[2 * i] = col[2 * r];
+			out[2 * i + 1] = col[2 * r + 1];
+		}
+		for (let r = 0; r < col.length / 2; r++) if (r & amask) leak = Math.max(leak, Math.hypot(col[2 * r], col[2 * r + 1]));
+		columns.push(out);
+	}
+	return { unitary: { qubitCount: keep.length, columns }, leak };
+}
