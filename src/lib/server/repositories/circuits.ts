@@ -48,10 +48,13 @@ export function summarizeRegisters(doc: CircuitDocument): string {
 	return doc.registers.map((r) => `${r.name}[${r.size}]`).join(' ').slice(0, 255);
 }
 
-/** Gate count after lowering; 0 when the document does not lower (the workbench says why). */
+/** Most gates the server lowers just to count them (a save must not start unbounded work). */
+export const MAX_COUNTED_GATES = 1_000_000;
+
+/** Gate count after lowering; 0 when the document does not lower or is past the bound (the workbench says why). */
 export function countLoweredGates(doc: CircuitDocument): number {
 	try {
-		return lowerCircuit(doc).gateCount;
+		return lowerCircuit(doc, { limits: { maxGates: MAX_COUNTED_GATES } }).gateCount;
 	} catch {
 		return 0;
 	}
