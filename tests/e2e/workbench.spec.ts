@@ -142,6 +142,17 @@ test('the planted-fault demo diverges on b[3] at the faulty rotation, and the di
 	expect(colours.distinct).toBeGreaterThan(5);
 	expect(colours.red, 'the divergence arc and needle are drawn').toBeGreaterThan(0);
 	await page.screenshot({ path: 'tests/artifacts/workbench-divergence.png', fullPage: true });
+
+	// The Check tab proves it wrong for every input and names the term: b[3] needs 1/8 of c·a[1].
+	await page.getByRole('tab', { name: 'Check' }).click();
+	await page.getByTestId('run-check').click();
+	await expect(page.getByTestId('check-result')).toContainText('does not meet the spec', { timeout: 30_000 });
+	await expect(page.getByTestId('check-result')).toContainText('512 inputs (all)');
+	const term = page.getByTestId('wrong-terms').locator('tbody tr').first();
+	await expect(term).toContainText('b[3]');
+	await expect(term).toContainText('c[0]*a[1]');
+	await expect(term).toContainText('1/8 turn');
+	await expect(page.getByTestId('strip-item').filter({ hasText: 'c·a[1] → b[3]' }).getByTestId('suspect-mark')).toBeVisible();
 });
 
 test('a viewer gets the workbench read-only', async ({ page }) => {
