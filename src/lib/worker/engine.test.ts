@@ -1,7 +1,7 @@
 import { readFileSync } from 'node:fs';
 import { importQasm } from '$lib/quantum/qasm/import';
 import { describe, expect, it } from 'vitest';
-import { EngineSession, handleRequest, parseInputValue } from './engine';
+import { EngineSession, handleRequest, parseInputValue, runCheck } from './engine';
 import { makeTemplate, plantedFaultAdder, demoMultiplier } from '$lib/components/workbench/templates';
 
 describe('engine session (what the workbench worker serves)', () => {
@@ -111,5 +111,26 @@ describe('an imported OpenQASM file gets the same expected angles', () => {
 		expect(d.label).toBe('b[2]');
 		const line = bad.split('\n').findIndex((l) => l.startsWith('cu1(pi/4) a[1], b[2];')) + 1;
 		expect(s.position(d.step).source?.line).toBe(line);
+	});
+});
+
+describe('the check a workbench runs', () => {
+	it('proves the planted fault wrong for all 512 inputs and locates each failing input at the faulty rotation', () => {
+		const res = runCheck({ id: 3, type: 'check', doc: plantedFaultAdder(), inputs: { mode: 'auto' } }, () => {});
+		expect(res.type).toBe('checked');
+		if (res.type !== 'checked') return;
+		expect(res.report.ok).toBe(false);
+		expect(res.report.cases).toBe(512);
+		// Every failing input has c = 1 and a[1] = 1: only those switch the wrong monomial on.
+		for (const f of res.report.failures) {
+			expect(f.input.c).toBe('1');
+			expect((BigInt(f.input.a) >> 1n) & 1n).toBe(1n);
+		}
+		// 1/4 of the inputs have c = 1 and a[1] = 1: 128 of 512 (counting).
+		expect(res.report.failed).toBe(128);
+		for (const d of res.firstDivergences) {
+			expect(d?.qubit).toBe('b[3]');
+			expect(d?.gate).toContain('c[0], a[1] → b[3]');
+		}
 	});
 });

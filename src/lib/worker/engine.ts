@@ -12,7 +12,7 @@ import { specPolynomial, type IntPoly } from '$lib/quantum/check/spec';
 import { findFourierSections, type FourierSection } from '$lib/quantum/intent';
 import type { RegisterIntent } from '$lib/quantum/intent';
 import type { DialQubit } from '$lib/components/dials/dial-model';
-import type { BreakpointSpec, FrameView, GateRow, LedgerView, PositionView, RunSummary, SeekKind, WorkerRequest, WorkerResponse } from './protocol';
+import type { BreakpointSpec, FailureDivergence, FrameView, GateRow, LedgerView, PositionView, RunSummary, SeekKind, WorkerRequest, WorkerResponse } from './protocol';
 
 /** Most ledger rows sent for one qubit; the view says when it was cut. */
 export const MAX_LEDGER_ROWS = 5000;
@@ -35,6 +35,9 @@ export function describeGate(g: GateView, c: LoweredCircuit): string {
 }
 
 export { parseInputValue };
+
+/** Gates at most replayed to locate the first divergence of failing inputs after a check. */
+export const MAX_FAILURE_REPLAY_GATES = 2_000_000;
 
 /** Gates at most scanned for QFT patterns when a circuit has no QFT blocks (imported files). */
 export const MAX_SECTION_SCAN_GATES = 200_000;
@@ -318,7 +321,25 @@ export function runCheck(req: Extract<WorkerRequest, { type: 'check' }>, progres
 			}
 		}
 	});
-	return { id: req.id, type: 'checked', report, millis: Date.now() - t0 };
+	// For the first failures, the step where each first leaves its expected angles (bounded work).
+	const firstDivergences: (FailureDivergence | null)[] = [];
+	let budget = MAX_FAILURE_REPLAY_GATES;
+	for (const f of report.failures.slice(0, 20)) {
+		if (budget < c.gateCount) {
+			firstDivergences.push(null);
+			continue;
+		}
+		budget -= c.gateCount;
+		try {
+			const s = new EngineSession({ id: 0, type: 'load', doc: req.doc, inputs: { values: f.input, superposed: [] } });
+			const d = s.summary.firstDivergence;
+			const pos = d ? s.position(d.step) : null;
+			firstDivergences.push(d && pos ? { step: d.step, qubit: d.label, gate: pos.gateText ?? '', line: pos.source?.line ?? null } : null);
+		} catch {
+			firstDivergences.push(null);
+		}
+	}
+	return { id: req.id, type: 'checked', report, millis: Date.now() - t0, firstDivergences };
 }
 
 /** Serve one request against the current session (the worker's message handler). */

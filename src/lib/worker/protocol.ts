@@ -86,6 +86,14 @@ export interface FrameView {
 	diverged: number[];
 }
 
+/** Where one failing input of a check first leaves its expected angles (null: nowhere stated). */
+export interface FailureDivergence {
+	step: number;
+	qubit: string;
+	gate: string;
+	line: number | null;
+}
+
 export interface LedgerRow {
 	step: number;
 	gate: number;
@@ -113,7 +121,7 @@ export type WorkerResponse =
 	| { id: number; type: 'seek'; step: number; reason: string | null; breakpointId: string | null }
 	| { id: number; type: 'gates'; gates: GateRow[]; truncated: boolean }
 	| { id: number; type: 'progress'; done: number; total: number }
-	| { id: number; type: 'checked'; report: CheckReport; millis: number }
+	| { id: number; type: 'checked'; report: CheckReport; millis: number; firstDivergences: (FailureDivergence | null)[] }
 	| { id: number; type: 'error'; message: string; path?: string };
 
 export interface GateRow {
