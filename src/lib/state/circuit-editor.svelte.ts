@@ -157,6 +157,38 @@ export class CircuitEditor {
 		});
 	}
 
+	/**
+	 * Turn body items [from, to] into a named block of this circuit, called in their place. Every
+	 * register the items use becomes a register parameter of the same name, so the call passes
+	 * the registers it had and can be pointed at others. Returns a message when it cannot.
+	 */
+	makeBlock(name: string, from: number, to: number, description?: string): string | null {
+		if (!NAME_RE.test(name)) return 'A block name starts with a letter or _, then letters, digits or _.';
+		if ((this.doc.blocks ?? []).some((b) => b.name === name)) return `There is already a block called ${name}.`;
+		const n = this.doc.body.length;
+		if (!Number.isInteger(from) || !Number.isInteger(to) || from < 0 || to >= n || from > to) return `Pick items between 1 and ${n}, first not after last.`;
+		const items = clone($state.snapshot(this.doc.body.slice(from, to + 1)) as BodyItem[]);
+		if (items.some((i) => i.type === 'call' && i.block === name)) return 'A block cannot call itself.';
+		const used: string[] = [];
+		const visit = (v: unknown): void => {
+			if (Array.isArray(v)) return v.forEach(visit);
+			if (v && typeof v === 'object')
+				for (const [k, x] of Object.entries(v)) {
+					if (REGISTER_KEYS.has(k) && typeof x === 'string' && !used.includes(x)) used.push(x);
+					else visit(x);
+				}
+		};
+		visit(items);
+		const regs = this.doc.registers.map((r) => r.name).filter((r) => used.includes(r));
+		this.change((d) => {
+			d.blocks = [...(d.blocks ?? []), { name, ...(description ? { description } : {}), params: regs.map((r) => ({ name: r, kind: 'register' as const })), body: items }];
+			const call: BodyItem = { id: newItemId(d, `call-${name}`), type: 'call', block: name, args: Object.fromEntries(regs.map((r) => [r, r])) };
+			d.body.splice(from, to - from + 1, call);
+			this.selectedId = call.id;
+		});
+		return null;
+	}
+
 	setTitle(title: string): void {
 		this.change((d) => {
 			d.title = title;

@@ -16,3 +16,36 @@ describe('register rename', () => {
 		expect(out[2].id).toBe('a');
 	});
 });
+
+describe('making a block of strip items', () => {
+	it('moves the items into a block called in their place, and the circuit lowers to the same gates', async () => {
+		const { CircuitEditor } = await import('./circuit-editor.svelte');
+		const { makeTemplate } = await import('$lib/components/workbench/templates');
+		const { lowerCircuit } = await import('$lib/quantum/lower');
+		const { gateAt } = await import('$lib/quantum/circuit');
+		const before = makeTemplate('adder');
+		const ed = new CircuitEditor(before, 1);
+		expect(ed.makeBlock('add_into_b', 0, 2, 'QFT, add, inverse')).toBeNull();
+		const after = ed.snapshot();
+		expect(after.body).toHaveLength(1);
+		expect(after.body[0]).toMatchObject({ type: 'call', block: 'add_into_b', args: { a: 'a', b: 'b' } });
+		expect(after.blocks?.[0].params).toEqual([{ name: 'a', kind: 'register' }, { name: 'b', kind: 'register' }]);
+		const x = lowerCircuit(before);
+		const y = lowerCircuit(after);
+		expect(y.gateCount).toBe(x.gateCount);
+		for (let g = 0; g < x.gateCount; g++) expect(gateAt(y, g)).toEqual(gateAt(x, g));
+		// Undo gives the items back.
+		ed.undo();
+		expect(ed.snapshot().body).toHaveLength(3);
+	});
+
+	it('refuses a bad name, a taken name and an empty range with a message', async () => {
+		const { CircuitEditor } = await import('./circuit-editor.svelte');
+		const { makeTemplate } = await import('$lib/components/workbench/templates');
+		const ed = new CircuitEditor(makeTemplate('adder'), 1);
+		expect(ed.makeBlock('9lives', 0, 0)).toMatch(/starts with a letter/);
+		expect(ed.makeBlock('ok', 2, 1)).toMatch(/first not after last/);
+		expect(ed.makeBlock('ok', 0, 0)).toBeNull();
+		expect(ed.makeBlock('ok', 0, 0)).toMatch(/already a block called ok/);
+	});
+});
