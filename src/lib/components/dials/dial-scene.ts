@@ -104,6 +104,20 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 	let structureKey = '';
 	let selected: number | null = null;
 	let lodSmall = false;
+	// Faces are cached as one texture for the whole board when it fits a texture (one quad to
+	// draw per frame), else one texture per dial. Software WebGL spends most of a frame on them.
+	let layerCache: 'whole' | 'each' = 'each';
+	let facesDirty = false;
+	const MAX_TEXTURE = 8192;
+	const cacheResolution = () => Math.min(2, Math.max(1, world.scale.x * (globalThis.devicePixelRatio || 1)));
+	function cacheWholeLayer(): boolean {
+		if (!layout) return false;
+		const res = cacheResolution();
+		if (layout.width * res > MAX_TEXTURE || layout.height * res > MAX_TEXTURE) return false;
+		if (facesLayer.isCachedAsTexture) facesLayer.cacheAsTexture(false);
+		facesLayer.cacheAsTexture({ resolution: res, antialias: true });
+		return true;
+	}
 
 	// --- the frame loop: advance animations, render only when something changed ---
 	const intervals: number[] = [];
@@ -114,6 +128,11 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 		intervals.push(now - lastFrame);
 		lastFrame = now;
 		if (intervals.length > 240) intervals.shift();
+		if (facesDirty) {
+			facesDirty = false;
+			if (facesLayer.isCachedAsTexture) facesLayer.updateCacheTexture();
+			dirty = true;
+		}
 		if (step(now) || dirty) {
 			dirty = false;
 			app.renderer.render(app.stage);
@@ -148,7 +167,8 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 			if (q.bit === 1) g.circle(0, 0, 11).fill({ color: C.paper });
 			else g.circle(0, 0, 11).stroke({ width: 2, color: C.tick });
 		} else g.circle(0, 0, 3.5).fill({ color: C.paper });
-		if (d.still.isCachedAsTexture) d.still.updateCacheTexture();
+		if (layerCache === 'whole') facesDirty = true;
+		else if (d.still.isCachedAsTexture) d.still.updateCacheTexture();
 		else d.still.cacheAsTexture({ resolution: 2, antialias: true });
 	}
 
@@ -237,6 +257,14 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 			const a = q.angle ?? 0;
 			dials.set(q.qubit, { q, root, still, face, arc, needle, expected, title, sub, shown: a, from: a, to: a, t0: 0, animating: false, faceKey: '' });
 		}
+		if (facesLayer.isCachedAsTexture) facesLayer.cacheAsTexture(false);
+		layerCache = 'each';
+		const whole = layout.width * cacheResolution() <= MAX_TEXTURE && layout.height * cacheResolution() <= MAX_TEXTURE;
+		if (whole) {
+			layerCache = 'whole';
+			for (const d of dials.values()) drawFace(d);
+			cacheWholeLayer();
+		}
 		cull();
 	}
 
@@ -272,8 +300,13 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 			const { x, y } = d.root.position;
 			const vis = x >= x0 && x <= x1 && y >= y0 && y <= y1;
 			d.root.visible = vis;
-			d.still.visible = vis;
-			d.title.visible = d.sub.visible = !small;
+			// With one texture for all faces, every face stays in it; culling is for the needles.
+			if (layerCache === 'each') d.still.visible = vis;
+			if (d.title.visible === small) {
+				d.title.visible = !small;
+				if (layerCache === 'whole') facesDirty = true;
+			}
+			d.sub.visible = !small;
 			if (vis && (lodChanged || d.faceKey === '')) {
 				drawFace(d);
 				drawHand(d);
@@ -288,6 +321,12 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 		world.x = cx - ((cx - world.x) * s1) / s0;
 		world.y = cy - ((cy - world.y) * s1) / s0;
 		world.scale.set(s1);
+		// Re-cache the faces at a resolution that stays sharp at this zoom (or per dial when too big).
+		if (layerCache === 'whole' && !cacheWholeLayer()) {
+			facesLayer.cacheAsTexture(false);
+			layerCache = 'each';
+			for (const d of dials.values()) d.faceKey = '';
+		}
 		cull();
 	}
 	const onWheel = (e: WheelEvent) => {
@@ -353,11 +392,12 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 			zoomAt(f, app.screen.width / 2, app.screen.height / 2);
 		},
 		resetView() {
-			world.scale.set(1);
 			world.position.set(0, 0);
-			cull();
+			zoomAt(1 / world.scale.x, 0, 0);
 		},
 		render() {
+			if (facesDirty && facesLayer.isCachedAsTexture) facesLayer.updateCacheTexture();
+			facesDirty = false;
 			app.renderer.render(app.stage);
 		},
 		destroy() {
