@@ -628,27 +628,47 @@ export class Run {
 		return this.divergences.length ? this.divergences[0].step : null;
 	}
 
-	/** Sorted, distinct block boundary steps (every block start and end). */
+	private boundaries: number[] | null = null;
+
+	/** Sorted, distinct block boundary steps (every block start and end); built once per run. */
 	blockBoundaries(): number[] {
-		const s = new Set<number>([0, this.stepCount]);
-		for (const b of this.circuit.blocks) {
-			s.add(b.start);
-			s.add(b.end);
+		if (!this.boundaries) {
+			const s = new Set<number>([0, this.stepCount]);
+			for (const b of this.circuit.blocks) {
+				s.add(b.start);
+				s.add(b.end);
+			}
+			this.boundaries = [...s].sort((a, b) => a - b);
 		}
-		return [...s].sort((a, b) => a - b);
+		return this.boundaries;
+	}
+
+	/** Index of the first boundary greater than `step` (binary search). */
+	private boundaryAfter(step: number): number {
+		const xs = this.blockBoundaries();
+		let lo = 0;
+		let hi = xs.length;
+		while (lo < hi) {
+			const mid = (lo + hi) >> 1;
+			if (xs[mid] > step) hi = mid;
+			else lo = mid + 1;
+		}
+		return lo;
 	}
 
 	/** Next block boundary after `step` (or the last step). */
 	nextBoundary(step: number): number {
-		for (const b of this.blockBoundaries()) if (b > step) return b;
-		return this.stepCount;
+		const xs = this.blockBoundaries();
+		const i = this.boundaryAfter(step);
+		return i < xs.length ? xs[i] : this.stepCount;
 	}
 
 	/** Previous block boundary before `step` (or 0). */
 	previousBoundary(step: number): number {
-		let out = 0;
-		for (const b of this.blockBoundaries()) if (b < step) out = b;
-		return out;
+		const xs = this.blockBoundaries();
+		let i = this.boundaryAfter(step) - 1;
+		while (i >= 0 && xs[i] >= step) i--;
+		return i >= 0 ? xs[i] : 0;
 	}
 
 	/** Step into: one gate forward. */
