@@ -5,13 +5,13 @@ const q = (register: string, index: number, qubit: number): DialQubit => ({ qubi
 
 describe('dial board model', () => {
 	it('keeps every tick while they are 3 px apart and thins by powers of two after', () => {
-		// radius 30 px → circumference ≈ 188 px: 2^5 = 32 ticks fit at ≥ 3 px, 2^6 = 64 do not.
+		// Plain geometry: radius 30 px → circumference 2π·30 ≈ 188.5 px; 32 ticks are 5.9 px apart, 64 would be 2.9 px (< 3).
 		expect(visibleTickCount(3, 30)).toBe(8);
 		expect(visibleTickCount(5, 30)).toBe(32);
 		expect(visibleTickCount(8, 30)).toBe(32);
 	});
 
-	it('takes the short way round the dial', () => {
+	it('takes the short way round the dial (arithmetic on turns)', () => {
 		expect(shortestTurn(0.9, 0.1)).toBeCloseTo(0.2);
 		expect(shortestTurn(0.1, 0.9)).toBeCloseTo(-0.2);
 		expect(shortestTurn(0, 0.5)).toBeCloseTo(0.5);
