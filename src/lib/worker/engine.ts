@@ -3,7 +3,7 @@
 import { lowerCircuit, LoweringError } from '$lib/quantum/lower';
 import { Run, type QubitFrame, type TraceFrame } from '$lib/quantum/run';
 import { formatTurns, toTurns, toTurnsSigned, type Angle, type SignedAngle } from '$lib/quantum/angle';
-import { GateCode, gateAt, gateProvenance, type GateView, type LoweredCircuit } from '$lib/quantum/circuit';
+import { GateCode, gateAt, gateProvenance, type CircuitDocument, type GateView, type LoweredCircuit } from '$lib/quantum/circuit';
 import { parseInputValue } from './inputs';
 import { evaluateSpec, parseSpec, SpecError } from '$lib/quantum/check/spec';
 import { checkCircuit, countResources, type InputChoice } from '$lib/quantum/check/index';
@@ -100,6 +100,28 @@ export function intentsFromSpecs(specs: string[], c: LoweredCircuit): { intents:
 	return { intents, problems };
 }
 
+interface PreparedCircuit {
+	circuit: LoweredCircuit;
+	intents: RegisterIntent[];
+	problems: string[];
+	intentSections: FourierSection[];
+}
+
+// What depends on the document only (lowering, specs, the prover's section search) is kept for
+// the last document, so changing only the inputs does not lower and scan the circuit again.
+let lastPrepared: { key: string; value: PreparedCircuit } | null = null;
+
+function prepareCircuit(doc: CircuitDocument): PreparedCircuit {
+	const key = JSON.stringify(doc);
+	if (lastPrepared?.key === key) return lastPrepared.value;
+	const circuit = lowerCircuit(doc);
+	const { intents, problems } = intentsFromSpecs(doc.specs ?? [], circuit);
+	const intentSections = intents.length && !findFourierSections(circuit).length ? sectionsFromGates(circuit, doc.specs ?? []) : [];
+	const value = { circuit, intents, problems, intentSections };
+	lastPrepared = { key, value };
+	return value;
+}
+
 export class EngineSession {
 	readonly circuit: LoweredCircuit;
 	readonly run: Run;
@@ -108,7 +130,8 @@ export class EngineSession {
 
 	constructor(req: Extract<WorkerRequest, { type: 'load' }>) {
 		const t0 = Date.now();
-		this.circuit = lowerCircuit(req.doc);
+		const prepared = prepareCircuit(req.doc);
+		this.circuit = prepared.circuit;
 		const c = this.circuit;
 		const values: Record<string, bigint> = {};
 		for (const r of c.registers) {
@@ -116,8 +139,7 @@ export class EngineSession {
 			const raw = req.inputs.values[r.name];
 			if (raw !== undefined) values[r.name] = parseInputValue(raw, r.name, r.size);
 		}
-		const { intents, problems } = intentsFromSpecs(req.doc.specs ?? [], c);
-		const intentSections = intents.length && !findFourierSections(c).length ? sectionsFromGates(c, req.doc.specs ?? []) : [];
+		const { intents, problems, intentSections } = prepared;
 		this.run = new Run(c, { values, superposed: req.inputs.superposed }, { keyframeInterval: req.keyframeInterval, intents, intentSections });
 		this.labels = [];
 		for (const r of c.registers) for (let i = 0; i < r.size; i++) this.labels[r.offset + i] = `${r.name}[${i}]`;
