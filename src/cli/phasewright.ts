@@ -5,13 +5,13 @@
  */
 import { readFileSync, writeFileSync } from 'node:fs';
 import { pathToFileURL } from 'node:url';
-import { importQasm } from '../lib/quantum/qasm/import.js';
 import { exportQasm } from '../lib/quantum/qasm/export.js';
 import { runPush } from './push.js';
+import { CliError as UsageError, loadCircuitFile, parseArgs as parseCliArgs, type Args } from './files.js';
 import { circuitUnitary, restrictToCleanAncillas, unitaryDistance } from '../lib/quantum/check/equivalence.js';
 import { QasmError } from '../lib/quantum/qasm/lexer.js';
 import { lowerCircuit } from '../lib/quantum/lower.js';
-import { readCircuitDocument, serializeCircuitDocument } from '../lib/quantum/schema.js';
+import { serializeCircuitDocument } from '../lib/quantum/schema.js';
 import type { CircuitDocument, LoweredCircuit } from '../lib/quantum/circuit.js';
 import { checkCircuit, countResources, SpecError, type CheckReport } from '../lib/quantum/check/index.js';
 import type { InputChoice } from '../lib/quantum/check/sweep.js';
@@ -32,7 +32,6 @@ const nodeIo: Io = {
 	writeFile: (p, t) => writeFileSync(p, t)
 };
 
-class UsageError extends Error {}
 
 const USAGE = `usage: phasewright <command> [options]
   check FILE --spec "OUT = EXPR" [--spec …] [--inputs all|random:N|a=5,b=3] [--seed N] [--json]
@@ -45,57 +44,11 @@ const USAGE = `usage: phasewright <command> [options]
                             check, upload the trace, and open a report when it fails
 Registers read little-endian: name[0] is the least-significant bit.`;
 
-interface Args {
-	positional: string[];
-	flags: Map<string, string[]>;
-}
-function parseArgs(argv: string[]): Args {
-	const positional: string[] = [];
-	const flags = new Map<string, string[]>();
-	const valued = new Set(['--spec', '--inputs', '--input', '--engine', '--step', '--seed', '--ancilla']);
-	for (let i = 0; i < argv.length; i++) {
-		const a = argv[i];
-		if (a.startsWith('--')) {
-			const [k, inline] = a.includes('=') && !valued.has(a) ? [a.slice(0, a.indexOf('=')), a.slice(a.indexOf('=') + 1)] : [a, undefined];
-			if (valued.has(k)) {
-				const v = inline ?? argv[++i];
-				if (v === undefined) throw new UsageError(`${k} needs a value`);
-				flags.set(k, [...(flags.get(k) ?? []), v]);
-			} else if (k === '--json' || k === '--help') flags.set(k, ['1']);
-			else throw new UsageError(`unknown option ${k}`);
-		} else positional.push(a);
-	}
-	return { positional, flags };
-}
+const VALUED = new Set(['--spec', '--inputs', '--input', '--engine', '--step', '--seed', '--ancilla']);
+const parseArgs = (argv: string[]) => parseCliArgs(argv, VALUED);
 
 /** Read a circuit file by extension / header. */
-function loadDocument(path: string, io: Io): { doc: CircuitDocument; warnings: string[]; definitionLines?: Map<string, number[]> } {
-	let text: string;
-	try {
-		text = io.readFile(path);
-	} catch (e) {
-		throw new UsageError(`${path}: cannot read the file (${(e as NodeJS.ErrnoException).code ?? (e as Error).message})`);
-	}
-	if (path.toLowerCase().endsWith('.json')) {
-		let json: unknown;
-		try {
-			json = JSON.parse(text);
-		} catch (e) {
-			throw new UsageError(`${path}:1:1: not valid JSON (${(e as Error).message})`);
-		}
-		try {
-			return { doc: readCircuitDocument(json), warnings: [] };
-		} catch (e) {
-			throw new UsageError(`${path}: ${(e as Error).message}`);
-		}
-	}
-	const r = importQasm(text, { file: path, defaultVersion: path.toLowerCase().endsWith('.qasm3') ? 3 : 2 });
-	const definitionLines = new Map<string, number[]>();
-	r.document.body.forEach((item, i) => {
-		if (r.origins[i]?.definitions.length) definitionLines.set(item.id, r.origins[i].definitions.map((d) => d.line));
-	});
-	return { doc: r.document, warnings: r.warnings.map((w) => `${path}:${w.line}:${w.column}: warning: ${w.message}`), definitionLines };
-}
+const loadDocument = (path: string, io: Io) => loadCircuitFile(path, (p) => io.readFile(p));
 
 function lower(doc: CircuitDocument, path: string): LoweredCircuit {
 	try {

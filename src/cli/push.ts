@@ -7,10 +7,9 @@
  */
 import { readFileSync } from 'node:fs';
 import { pathToFileURL } from 'node:url';
-import { importQasm } from '../lib/quantum/qasm/import.js';
+import { CliError as PushError, loadCircuitFile, parseArgs } from './files.js';
 import { QasmError } from '../lib/quantum/qasm/lexer.js';
 import { lowerCircuit } from '../lib/quantum/lower.js';
-import { readCircuitDocument } from '../lib/quantum/schema.js';
 import type { CircuitDocument } from '../lib/quantum/circuit.js';
 import { checkCircuit, SpecError, type CheckReport } from '../lib/quantum/check/index.js';
 import type { InputChoice } from '../lib/quantum/check/sweep.js';
@@ -34,23 +33,11 @@ export const PUSH_USAGE = `usage: phasewright push FILE --spec "OUT = EXPR" [--s
   --input   the inputs of the uploaded trace (default: the first failing input, else all zeros)
   --token   an API token of the team (made on the team's API tokens page; PHASEWRIGHT_TOKEN also works)`;
 
-class PushError extends Error {}
 
 type Flags = Map<string, string[]>;
+const VALUED = new Set(['--spec', '--server', '--token', '--inputs', '--seed', '--input', '--title', '--severity']);
 function parse(argv: string[]): { file: string; flags: Flags } {
-	const valued = new Set(['--spec', '--server', '--token', '--inputs', '--seed', '--input', '--title', '--severity']);
-	const flags: Flags = new Map();
-	const positional: string[] = [];
-	for (let i = 0; i < argv.length; i++) {
-		const a = argv[i];
-		if (valued.has(a)) {
-			const v = argv[++i];
-			if (v === undefined) throw new PushError(`${a} needs a value`);
-			flags.set(a, [...(flags.get(a) ?? []), v]);
-		} else if (a === '--json' || a === '--help') flags.set(a, ['1']);
-		else if (a.startsWith('--')) throw new PushError(`unknown option ${a}`);
-		else positional.push(a);
-	}
+	const { positional, flags } = parseArgs(argv, VALUED);
 	if (flags.has('--help')) return { file: '', flags };
 	if (positional.length !== 1) throw new PushError('push needs exactly one FILE');
 	return { file: positional[0], flags };
@@ -67,20 +54,7 @@ function values(text: string, what: string): Map<string, bigint> {
 }
 
 function loadDocument(path: string, io: PushIo): CircuitDocument {
-	let text: string;
-	try {
-		text = io.readFile(path);
-	} catch (e) {
-		throw new PushError(`${path}: cannot read the file (${(e as NodeJS.ErrnoException).code ?? (e as Error).message})`);
-	}
-	if (path.toLowerCase().endsWith('.json')) {
-		try {
-			return readCircuitDocument(JSON.parse(text));
-		} catch (e) {
-			throw new PushError(`${path}: ${(e as Error).message}`);
-		}
-	}
-	return importQasm(text, { file: path, defaultVersion: path.toLowerCase().endsWith('.qasm3') ? 3 : 2 }).document;
+	return loadCircuitFile(path, (p) => io.readFile(p)).doc;
 }
 
 async function call<T>(io: PushIo, server: string, token: string, path: string, body?: unknown): Promise<T> {

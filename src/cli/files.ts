@@ -1,0 +1,63 @@
+// What every command of the CLI shares: reading arguments and circuit files.
+import { importQasm } from '../lib/quantum/qasm/import.js';
+import { readCircuitDocument } from '../lib/quantum/schema.js';
+import type { CircuitDocument } from '../lib/quantum/circuit.js';
+
+/** An unusable command line or file: printed as it is, exit code 2. */
+export class CliError extends Error {}
+
+export interface Args {
+	positional: string[];
+	flags: Map<string, string[]>;
+}
+
+/** `--name value` or `--name=value` for the `valued` options (repeatable), `--json`, `--help`. */
+export function parseArgs(argv: string[], valued: ReadonlySet<string>): Args {
+	const positional: string[] = [];
+	const flags = new Map<string, string[]>();
+	for (let i = 0; i < argv.length; i++) {
+		const a = argv[i];
+		if (a.startsWith('--')) {
+			const [k, inline] = a.includes('=') && !valued.has(a) ? [a.slice(0, a.indexOf('=')), a.slice(a.indexOf('=') + 1)] : [a, undefined];
+			if (valued.has(k)) {
+				const v = inline ?? argv[++i];
+				if (v === undefined) throw new CliError(`${k} needs a value`);
+				flags.set(k, [...(flags.get(k) ?? []), v]);
+			} else if (k === '--json' || k === '--help') flags.set(k, ['1']);
+			else throw new CliError(`unknown option ${k}`);
+		} else positional.push(a);
+	}
+	return { positional, flags };
+}
+
+/**
+ * Read a circuit file: `.json` is a Phasewright document, anything else OpenQASM (version from
+ * its header; `.qasm3` assumes 3 without one). Warnings and gate-definition lines come along.
+ */
+export function loadCircuitFile(path: string, readFile: (p: string) => string): { doc: CircuitDocument; warnings: string[]; definitionLines?: Map<string, number[]> } {
+	let text: string;
+	try {
+		text = readFile(path);
+	} catch (e) {
+		throw new CliError(`${path}: cannot read the file (${(e as NodeJS.ErrnoException).code ?? (e as Error).message})`);
+	}
+	if (path.toLowerCase().endsWith('.json')) {
+		let json: unknown;
+		try {
+			json = JSON.parse(text);
+		} catch (e) {
+			throw new CliError(`${path}:1:1: not valid JSON (${(e as Error).message})`);
+		}
+		try {
+			return { doc: readCircuitDocument(json), warnings: [] };
+		} catch (e) {
+			throw new CliError(`${path}: ${(e as Error).message}`);
+		}
+	}
+	const r = importQasm(text, { file: path, defaultVersion: path.toLowerCase().endsWith('.qasm3') ? 3 : 2 });
+	const definitionLines = new Map<string, number[]>();
+	r.document.body.forEach((item, i) => {
+		if (r.origins[i]?.definitions.length) definitionLines.set(item.id, r.origins[i].definitions.map((d) => d.line));
+	});
+	return { doc: r.document, warnings: r.warnings.map((w) => `${path}:${w.line}:${w.column}: warning: ${w.message}`), definitionLines };
+}
