@@ -11,8 +11,8 @@ export default defineConfig({
 	workers: 1,
 	retries: 0,
 	outputDir: 'test-results',
-	reporter: process.env.PW_JSON_REPORT
-		? [['list'], ['json', { outputFile: process.env.PW_JSON_REPORT }]]
+	reporter: process.env.ORRERY_JSON_REPORT
+		? [['list'], ['json', { outputFile: process.env.ORRERY_JSON_REPORT }]]
 		: [['list']],
 	use: {
 		baseURL,

@@ -1,6 +1,6 @@
 import type { Config } from 'tailwindcss';
 
-// Phasewright's own palette: warm paper and ink, verdigris for "in phase",
+// Orrery's own palette: warm paper and ink, verdigris for "in phase",
 // copper for the thing you are looking at, and a vermilion for divergence.
 // Components use these names only; no raw hex values in markup.
 export default {
@@ -18,7 +18,7 @@ export default {
 			},
 			fontFamily: {
 				sans: ['"Space Grotesk Variable"', 'system-ui', 'sans-serif'],
-				mono: ['"IBM Plex Mono"', 'ui-monospace', 'monospace']
+				mono: ['"JetBrains Mono Variable"', 'ui-monospace', 'monospace']
 			},
 			borderRadius: { card: '0.6rem' }
 		}

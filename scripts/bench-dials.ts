@@ -10,7 +10,7 @@ if (!existsSync('build/handler.js')) {
 	console.error('bench dials: no build/ yet; run `npx vite build` (npm start or npm test make one)');
 	process.exit(1);
 }
-const server = spawn('node', ['build'], { env: { ...process.env, PORT: String(port), HOST: '127.0.0.1', ORIGIN: `http://127.0.0.1:${port}`, PW_BENCH_PAGES: '1' }, stdio: 'ignore' });
+const server = spawn('node', ['build'], { env: { ...process.env, PORT: String(port), HOST: '127.0.0.1', ORIGIN: `http://127.0.0.1:${port}`, ORRERY_BENCH_PAGES: '1' }, stdio: 'ignore' });
 const stop = () => server.kill();
 try {
 	for (let i = 0; i < 100; i++) {

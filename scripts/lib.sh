@@ -4,8 +4,8 @@
 ROOT="$(cd "$(dirname "${BASH_SOURCE[0]}")/.." && pwd)"
 cd "$ROOT"
 
-say() { printf '\033[36mphasewright\033[0m %s\n' "$*"; }
-die() { printf '\033[31mphasewright: %s\033[0m\n' "$*" >&2; exit 1; }
+say() { printf '\033[36morrery\033[0m %s\n' "$*"; }
+die() { printf '\033[31morrery: %s\033[0m\n' "$*" >&2; exit 1; }
 
 port_in_use() { (exec 3<>"/dev/tcp/127.0.0.1/$1") 2>/dev/null; }
 
@@ -29,18 +29,18 @@ ensure_system_packages() {
 		command -v sudo >/dev/null 2>&1 || die "need root to install ${want[*]}; run: sudo apt-get install -y ${want[*]}"
 		sudo="sudo"
 	fi
-	if ! { $sudo apt-get update -qq && DEBIAN_FRONTEND=noninteractive $sudo apt-get install -y -qq "${want[@]}"; } >/tmp/phasewright-apt.log 2>&1; then
-		tail -n 15 /tmp/phasewright-apt.log >&2
-		die "could not install ${want[*]} with apt-get (log above, full log in /tmp/phasewright-apt.log); install them by hand and run again"
+	if ! { $sudo apt-get update -qq && DEBIAN_FRONTEND=noninteractive $sudo apt-get install -y -qq "${want[@]}"; } >/tmp/orrery-apt.log 2>&1; then
+		tail -n 15 /tmp/orrery-apt.log >&2
+		die "could not install ${want[*]} with apt-get (log above, full log in /tmp/orrery-apt.log); install them by hand and run again"
 	fi
 }
 
 ensure_node_modules() {
 	if [ ! -d node_modules ] || [ ! -f node_modules/.package-lock.json ] || [ package-lock.json -nt node_modules/.package-lock.json ]; then
 		say "installing node modules (npm ci)"
-		npm ci --no-audit --no-fund >/tmp/phasewright-npm.log 2>&1 || {
-			tail -n 20 /tmp/phasewright-npm.log >&2
-			die "npm ci failed (log above, full log in /tmp/phasewright-npm.log)"
+		npm ci --no-audit --no-fund >/tmp/orrery-npm.log 2>&1 || {
+			tail -n 20 /tmp/orrery-npm.log >&2
+			die "npm ci failed (log above, full log in /tmp/orrery-npm.log)"
 		}
 	fi
 }
@@ -57,7 +57,7 @@ db_start() {
 		return 0
 	fi
 	if port_in_use "$port"; then
-		die "port $port is taken by another program, so MariaDB cannot listen there. Stop that program or pick another port: PW_DB_PORT=3318 npm start"
+		die "port $port is taken by another program, so MariaDB cannot listen there. Stop that program or pick another port: ORRERY_DB_PORT=3318 npm start"
 	fi
 	if [ ! -d "$datadir/mysql" ]; then
 		mariadb-install-db --no-defaults --datadir="$datadir" --user=root \
@@ -116,7 +116,7 @@ mail_start() {
 	mkdir -p "$dir"
 	if [ -f "$pidf" ] && kill -0 "$(cat "$pidf")" 2>/dev/null; then return 0; fi
 	if port_in_use "$port"; then
-		die "port $port is taken by another program, so the mail fake cannot listen there. Pick another: PW_SMTP_PORT=2626 npm start"
+		die "port $port is taken by another program, so the mail fake cannot listen there. Pick another: ORRERY_SMTP_PORT=2626 npm start"
 	fi
 	MAIL_DIR="$dir" SMTP_PORT="$port" setsid node --import tsx scripts/mail-fake.ts \
 		</dev/null >"$dir/../mail-fake.log" 2>&1 &

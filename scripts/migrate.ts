@@ -27,9 +27,9 @@ try {
 } catch (e) {
 	const err = e as { code?: string; message?: string };
 	if (err.code === 'ECONNREFUSED') {
-		console.error(`phasewright: cannot reach MariaDB at ${knexConfig.connection && (knexConfig.connection as { port: number }).port}; is it running? (npm start starts it)`);
+		console.error(`orrery: cannot reach MariaDB at ${knexConfig.connection && (knexConfig.connection as { port: number }).port}; is it running? (npm start starts it)`);
 	} else {
-		console.error(`phasewright: ${cmd} failed: ${err.message}`);
+		console.error(`orrery: ${cmd} failed: ${err.message}`);
 	}
 	process.exitCode = 1;
 } finally {

@@ -5,13 +5,13 @@ source "$(dirname "$0")/lib.sh"
 source "$ROOT/scripts/env.sh"
 case "${1:-}" in
 	up)
-		db_start "$PW_DATA_DIR/mariadb" "$PW_DB_PORT"
-		db_provision "$PW_DATA_DIR/mariadb" "$DB_NAME" "$DB_USER" "$DB_PASSWORD"
-		mail_start "$MAIL_DIR" "$PW_SMTP_PORT" "$PW_DATA_DIR/mail-fake.pid"
+		db_start "$ORRERY_DATA_DIR/mariadb" "$ORRERY_DB_PORT"
+		db_provision "$ORRERY_DATA_DIR/mariadb" "$DB_NAME" "$DB_USER" "$DB_PASSWORD"
+		mail_start "$MAIL_DIR" "$ORRERY_SMTP_PORT" "$ORRERY_DATA_DIR/mail-fake.pid"
 		;;
 	down)
-		mail_stop "$PW_DATA_DIR/mail-fake.pid"
-		db_stop "$PW_DATA_DIR/mariadb"
+		mail_stop "$ORRERY_DATA_DIR/mail-fake.pid"
+		db_stop "$ORRERY_DATA_DIR/mariadb"
 		;;
 	*) die "usage: scripts/services.sh up|down" ;;
 esac

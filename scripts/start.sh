@@ -1,26 +1,26 @@
 #!/usr/bin/env bash
-# One command from a fresh Debian machine with Node 20 to a running Phasewright.
+# One command from a fresh Debian machine with Node 20 to a running Orrery.
 set -euo pipefail
 source "$(dirname "$0")/lib.sh"
 source "$ROOT/scripts/env.sh"
 
 if port_in_use "$PORT"; then
-	die "port $PORT is already in use (is Phasewright already running?). Stop that program or choose another port: PORT=$((PORT + 1)) npm start"
+	die "port $PORT is already in use (is Orrery already running?). Stop that program or choose another port: PORT=$((PORT + 1)) npm start"
 fi
 
 ensure_system_packages
 ensure_node_modules
 bash scripts/services.sh up
-say "database on 127.0.0.1:$PW_DB_PORT, mail fake on 127.0.0.1:$PW_SMTP_PORT (messages in ${MAIL_DIR#$ROOT/})"
+say "database on 127.0.0.1:$ORRERY_DB_PORT, mail fake on 127.0.0.1:$ORRERY_SMTP_PORT (messages in ${MAIL_DIR#$ROOT/})"
 
 node --import tsx scripts/migrate.ts latest
 node --import tsx scripts/migrate.ts seed
 
 if [ ! -f build/handler.js ] || [ -n "$(find src static package-lock.json svelte.config.js vite.config.ts tailwind.config.ts -newer build/handler.js -print -quit 2>/dev/null)" ]; then
 	say "building the app"
-	npx vite build >/tmp/phasewright-build.log 2>&1 || { tail -n 30 /tmp/phasewright-build.log >&2; die "the build failed (log above)"; }
+	npx vite build >/tmp/orrery-build.log 2>&1 || { tail -n 30 /tmp/orrery-build.log >&2; die "the build failed (log above)"; }
 fi
 
 node --import tsx scripts/print-demo.ts || true
-say "Phasewright is running at $ORIGIN  (Ctrl-C stops the app; npm run stop stops the database and mail fake)"
+say "Orrery is running at $ORIGIN  (Ctrl-C stops the app; npm run stop stops the database and mail fake)"
 exec node build

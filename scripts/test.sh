@@ -8,14 +8,14 @@ source "$(dirname "$0")/lib.sh"
 ensure_system_packages --with-browser
 ensure_node_modules
 
-T="/dev/shm/phasewright-test-$$"
+T="/dev/shm/orrery-test-$$"
 mkdir -p "$T"
-export PW_DB_PORT; PW_DB_PORT=$(free_port_from "${PW_TEST_DB_PORT:-3417}")
-export PW_SMTP_PORT; PW_SMTP_PORT=$(free_port_from "${PW_TEST_SMTP_PORT:-2625}")
-export E2E_PORT; E2E_PORT=$(free_port_from "${PW_TEST_APP_PORT:-4173}")
-export DB_HOST=127.0.0.1 DB_PORT=$PW_DB_PORT DB_NAME=phasewright_test DB_USER=phasewright DB_PASSWORD=phasewright-test
-export SMTP_URL="smtp://127.0.0.1:$PW_SMTP_PORT" MAIL_DIR="$T/mail" PW_DEV_OUTBOX=1
-export PW_TEST_DATADIR="$T/mariadb" PW_TEST_RUN=1
+export ORRERY_DB_PORT; ORRERY_DB_PORT=$(free_port_from "${ORRERY_TEST_DB_PORT:-3417}")
+export ORRERY_SMTP_PORT; ORRERY_SMTP_PORT=$(free_port_from "${ORRERY_TEST_SMTP_PORT:-2625}")
+export E2E_PORT; E2E_PORT=$(free_port_from "${ORRERY_TEST_APP_PORT:-4173}")
+export DB_HOST=127.0.0.1 DB_PORT=$ORRERY_DB_PORT DB_NAME=orrery_test DB_USER=orrery DB_PASSWORD=orrery-test
+export SMTP_URL="smtp://127.0.0.1:$ORRERY_SMTP_PORT" MAIL_DIR="$T/mail" ORRERY_DEV_OUTBOX=1
+export ORRERY_TEST_DATADIR="$T/mariadb" ORRERY_TEST_RUN=1
 export ORIGIN="http://127.0.0.1:$E2E_PORT"
 # adapter-node refuses bodies over 512 KiB by default; snapshots may be up to 5 MiB (the app checks that itself).
 export BODY_SIZE_LIMIT=8M
@@ -27,10 +27,10 @@ cleanup() {
 }
 trap cleanup EXIT
 
-say "throwaway MariaDB on 127.0.0.1:$PW_DB_PORT, mail fake on :$PW_SMTP_PORT, under $T"
-db_start "$T/mariadb" "$PW_DB_PORT" --innodb-flush-log-at-trx-commit=0 --innodb-doublewrite=0 --skip-log-bin
+say "throwaway MariaDB on 127.0.0.1:$ORRERY_DB_PORT, mail fake on :$ORRERY_SMTP_PORT, under $T"
+db_start "$T/mariadb" "$ORRERY_DB_PORT" --innodb-flush-log-at-trx-commit=0 --innodb-doublewrite=0 --skip-log-bin
 db_provision "$T/mariadb" "$DB_NAME" "$DB_USER" "$DB_PASSWORD"
-mail_start "$T/mail" "$PW_SMTP_PORT" "$T/mail-fake.pid"
+mail_start "$T/mail" "$ORRERY_SMTP_PORT" "$T/mail-fake.pid"
 
 STEPS="$T/steps.txt"; : >"$STEPS"
 step() { # step NAME command...
@@ -48,7 +48,7 @@ step build npx vite build --logLevel warn
 say "── playwright"
 if grep -q "build ok" "$STEPS"; then
 	node --import tsx scripts/migrate.ts seed >/dev/null
-	PW_JSON_REPORT="$T/playwright.json" npx playwright test
+	ORRERY_JSON_REPORT="$T/playwright.json" npx playwright test
 else
 	say "skipping Playwright: the build failed"
 fi

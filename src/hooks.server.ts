@@ -9,7 +9,7 @@ const isApiPath = (p: string) => p === '/api' || p.startsWith('/api/');
 
 async function fromBearer(event: Parameters<Handle>[0]['event'], header: string): Promise<Response | null> {
 	const m = /^Bearer\s+(\S+)\s*$/i.exec(header);
-	if (!m) return apiError(401, 'Send the token as "Authorization: Bearer pw_…".');
+	if (!m) return apiError(401, 'Send the token as "Authorization: Bearer orr_…".');
 	const address = event.getClientAddress();
 	try {
 		await limits.badToken.check(address);

@@ -31,7 +31,7 @@ export function parseArgs(argv: string[], valued: ReadonlySet<string>): Args {
 }
 
 /**
- * Read a circuit file: `.json` is a Phasewright document, anything else OpenQASM (version from
+ * Read a circuit file: `.json` is an Orrery document, anything else OpenQASM (version from
  * its header; `.qasm3` assumes 3 without one). Warnings and gate-definition lines come along.
  */
 export function loadCircuitFile(path: string, readFile: (p: string) => string): { doc: CircuitDocument; warnings: string[]; definitionLines?: Map<string, number[]> } {

@@ -27,14 +27,14 @@ function fakeIo(doc: unknown) {
 	return { io, sent, out };
 }
 
-const args = (spec: string) => ['adder.json', '--spec', spec, '--server', 'http://pw.test', '--token', 'pw_test', '--json'];
+const args = (spec: string) => ['adder.json', '--spec', spec, '--server', 'http://orrery.test', '--token', 'orr_test', '--json'];
 
-describe('phasewright push', () => {
+describe('orrery push', () => {
 	it('uploads the trace at the first failing input and opens a report at the divergence; exit 1', async () => {
 		const { io, sent, out } = fakeIo(plantedFaultAdder());
 		expect(await runPush(args('b = b + c*a mod 16'), io)).toBe(1);
 		expect(sent.map((s) => `${s.method} ${s.path}`)).toEqual(['GET /api/me', 'POST /api/teams/lab/traces', `GET /api/teams/lab/traces/${'t'.repeat(24)}`, 'POST /api/teams/lab/reports']);
-		expect(sent.every((s) => s.auth === 'Bearer pw_test')).toBe(true);
+		expect(sent.every((s) => s.auth === 'Bearer orr_test')).toBe(true);
 		const trace = sent[1].body as { document: { specs: string[] }; inputs: { values: Record<string, string> } };
 		expect(trace.document.specs).toContain('b = b + c*a mod 16');
 		// The fault needs c=1 and a[1]=1, so the first failing input has both.
@@ -44,7 +44,7 @@ describe('phasewright push', () => {
 		expect(report.step).toBe(13);
 		expect(report.severity).toBe('high');
 		expect(report.description).toContain('fail');
-		expect(JSON.parse(out[0])).toMatchObject({ ok: false, report: { id: 'r'.repeat(24), page: 'http://pw.test/teams/lab/reports/r' } });
+		expect(JSON.parse(out[0])).toMatchObject({ ok: false, report: { id: 'r'.repeat(24), page: 'http://orrery.test/teams/lab/reports/r' } });
 	});
 
 	it('opens no report when the circuit meets its spec; exit 0', async () => {
@@ -56,10 +56,10 @@ describe('phasewright push', () => {
 	});
 
 	it('exits 2 with a sentence when the token or the spec is missing', async () => {
-		delete process.env.PHASEWRIGHT_TOKEN;
+		delete process.env.ORRERY_TOKEN;
 		const { io, out } = fakeIo(plantedFaultAdder());
-		expect(await runPush(['adder.json', '--spec', 'b = b + c*a mod 16', '--server', 'http://pw.test'], { ...io, out: () => {} })).toBe(2);
+		expect(await runPush(['adder.json', '--spec', 'b = b + c*a mod 16', '--server', 'http://orrery.test'], { ...io, out: () => {} })).toBe(2);
 		expect(out.at(-1)).toContain('--token');
-		expect(await runPush(['adder.json', '--server', 'http://pw.test', '--token', 'x'], io)).toBe(2);
+		expect(await runPush(['adder.json', '--server', 'http://orrery.test', '--token', 'x'], io)).toBe(2);
 	});
 });

@@ -1,6 +1,6 @@
 /**
- * `phasewright push FILE --spec "OUT = EXPR" --server URL --token T`: check the circuit here (the
- * same checker as `phasewright check`), upload the run as a trace (the server recomputes it and
+ * `orrery push FILE --spec "OUT = EXPR" --server URL --token T`: check the circuit here (the
+ * same checker as `orrery check`), upload the run as a trace (the server recomputes it and
  * keeps the keyframe checksums), and open a report when a spec fails, at the first divergence.
  * Exit codes: 0 the circuit meets every spec; 1 it does not (a report was opened); 2 unusable
  * file, arguments, or the server refused. Everything is exact classical simulation.
@@ -28,10 +28,10 @@ const nodeIo: PushIo = {
 	fetch: (...a) => fetch(...a)
 };
 
-export const PUSH_USAGE = `usage: phasewright push FILE --spec "OUT = EXPR" [--spec …] --server URL --token T
+export const PUSH_USAGE = `usage: orrery push FILE --spec "OUT = EXPR" [--spec …] --server URL --token T
        [--inputs all|random:N] [--seed N] [--input a=5,b=3] [--title TEXT] [--severity low|medium|high|critical] [--json]
   --input   the inputs of the uploaded trace (default: the first failing input, else all zeros)
-  --token   an API token of the team (made on the team's API tokens page; PHASEWRIGHT_TOKEN also works)`;
+  --token   an API token of the team (made on the team's API tokens page; ORRERY_TOKEN also works)`;
 
 
 type Flags = Map<string, string[]>;
@@ -75,7 +75,7 @@ async function call<T>(io: PushIo, server: string, token: string, path: string, 
 
 /** The markdown description of a failing check (what failed, the wrong terms, the suspects). */
 export function describeFailure(r: CheckReport, file: string): string {
-	const lines = [`\`phasewright push\` checked **${file}** against ${r.specs.map((s) => `\`${s}\``).join(', ')}: ${r.failed} of ${r.cases} input${r.cases === 1 ? '' : 's'} fail (${r.method}; exact simulation, not a hardware run).`, ''];
+	const lines = [`\`orrery push\` checked **${file}** against ${r.specs.map((s) => `\`${s}\``).join(', ')}: ${r.failed} of ${r.cases} input${r.cases === 1 ? '' : 's'} fail (${r.method}; exact simulation, not a hardware run).`, ''];
 	const fmt = (o: Record<string, string>) => Object.entries(o).map(([k, v]) => `${k}=${v}`).join(', ');
 	for (const f of r.failures.slice(0, 5)) lines.push(`- input ${fmt(f.input)}: expected ${fmt(f.expected)}, got ${fmt(f.got)}`);
 	for (const w of r.wrongTerms.slice(0, 5)) lines.push(`- wrong term on ${w.target}: coefficient of ${w.term} is ${w.actualTurns}, expected ${w.expectedTurns}`);
@@ -93,9 +93,9 @@ export async function runPush(argv: string[], io: PushIo = nodeIo): Promise<numb
 		const specs = flags.get('--spec') ?? [];
 		if (!specs.length) throw new PushError('push needs at least one --spec "OUT = EXPR"');
 		const server = flags.get('--server')?.[0];
-		const token = flags.get('--token')?.[0] ?? process.env.PHASEWRIGHT_TOKEN;
-		if (!server) throw new PushError('push needs --server URL (the Phasewright site, e.g. https://phasewright.example)');
-		if (!token) throw new PushError('push needs --token T (or PHASEWRIGHT_TOKEN): an API token of the team');
+		const token = flags.get('--token')?.[0] ?? process.env.ORRERY_TOKEN;
+		if (!server) throw new PushError('push needs --server URL (the Orrery site, e.g. https://orrery.example)');
+		if (!token) throw new PushError('push needs --token T (or ORRERY_TOKEN): an API token of the team');
 
 		const doc = loadDocument(file, io);
 		doc.specs = [...new Set([...(doc.specs ?? []), ...specs])];

@@ -15,7 +15,7 @@ test('a token made on the team page works for its team only, at its role, and st
 	await page.getByLabel('Role').selectOption('engineer');
 	await page.getByRole('button', { name: 'Create token' }).click();
 	const secret = await page.getByTestId('new-token').inputValue();
-	expect(secret).toMatch(/^pw_[a-z2-7]{32}$/);
+	expect(secret).toMatch(/^orr_[a-z2-7]{32}$/);
 	// Shown once: a fresh load lists it by name and last four characters only.
 	await page.reload();
 	await expect(page.getByTestId('new-token')).toHaveCount(0);
@@ -74,7 +74,7 @@ test('API errors come as { error: { code, message } }, also for unknown routes a
 	const unknown = await anon.get('/api/no-such-thing');
 	expect(unknown.status()).toBe(404);
 	expect((await unknown.json()).error.code).toBe('not_found');
-	const bad = await anon.get('/api/me', { headers: { authorization: 'Bearer pw_notarealtoken' } });
+	const bad = await anon.get('/api/me', { headers: { authorization: 'Bearer orr_notarealtoken' } });
 	expect(bad.status()).toBe(401);
 	expect((await bad.json()).error.code).toBe('unauthorized');
 	const badJson = await anon.post('/api/teams', { data: 'not json', headers: { 'content-type': 'application/json' } });

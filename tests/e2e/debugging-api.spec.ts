@@ -137,11 +137,11 @@ test('a replay whose recomputed checksums differ from the saved ones is flagged;
 	await expect(warn).toContainText('saved 0badf00d');
 });
 
-test('phasewright push uploads a failing circuit as a trace and opens a report at its divergence (exit 1)', async () => {
+test('orrery push uploads a failing circuit as a trace and opens a report at its divergence (exit 1)', async () => {
 	test.setTimeout(60_000);
 	const res = await crew.ctx.engineer.post(`/teams/${crew.slug}/tokens?/create`, { form: { name: `ci-${Date.now()}`, role: 'engineer' }, headers: { origin: formHeaders.origin, accept: 'application/json', 'x-sveltekit-action': 'true' } });
-	const token = (JSON.parse((await res.json()).data) as unknown[]).find((v) => typeof v === 'string' && /^pw_[a-z2-7]{32}$/.test(v)) as string;
-	const dir = await mkdtemp(join(tmpdir(), 'pw-push-'));
+	const token = (JSON.parse((await res.json()).data) as unknown[]).find((v) => typeof v === 'string' && /^orr_[a-z2-7]{32}$/.test(v)) as string;
+	const dir = await mkdtemp(join(tmpdir(), 'orrery-push-'));
 	const file = join(dir, 'adder.json');
 	await writeFile(file, JSON.stringify(faultyAdder(`CI adder ${Date.now()}`)));
 	const run = await new Promise<{ code: number; stdout: string; stderr: string }>((resolve) =>

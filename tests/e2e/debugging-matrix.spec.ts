@@ -148,7 +148,7 @@ test('debug matrix: API tokens carry the lesser of token and member role', async
 		const res = await api(a).post(`/teams/${s()}/tokens?/create`, { form: { name: `dbg-${a}-${role}-${Date.now()}`, role }, headers: { origin: formHeaders.origin, accept: 'application/json', 'x-sveltekit-action': 'true' } });
 		const body = await res.json();
 		expect(body.type).toBe('success');
-		return (JSON.parse(body.data) as unknown[]).find((v) => typeof v === 'string' && /^pw_[a-z2-7]{32}$/.test(v)) as string;
+		return (JSON.parse(body.data) as unknown[]).find((v) => typeof v === 'string' && /^orr_[a-z2-7]{32}$/.test(v)) as string;
 	};
 	const engineerToken = await mint('engineer', 'engineer');
 	const viewerToken = await mint('owner', 'viewer');

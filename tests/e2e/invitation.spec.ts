@@ -16,7 +16,7 @@ test('an owner invites by e-mail; a new person signs up through the link and see
 	await expect(page.getByTestId('invitation').filter({ hasText: invitee })).toBeVisible();
 
 	const mail = await waitForMail(invitee, '/invite/');
-	expect(mail.subject).toBe('Join Halvorsen Phase Lab on Phasewright');
+	expect(mail.subject).toBe('Join Halvorsen Phase Lab on Orrery');
 	expect(mail.text).toContain('as reviewer');
 	expect(mail.html).toContain(mail.link);
 

@@ -16,7 +16,7 @@ test('reset by e-mailed link: new password works, old one and old sessions do no
 	await expect(page.getByText(`If ${email} belongs to an account, a link is on its way.`)).toBeVisible();
 
 	const mail = await waitForMail(email, '/reset/');
-	expect(mail.subject).toBe('Set a new Phasewright password');
+	expect(mail.subject).toBe('Set a new Orrery password');
 	await page.goto(pathOf(mail.link));
 	await page.getByLabel('New password').fill(newPassword);
 	await page.getByLabel('The same again').fill(newPassword);

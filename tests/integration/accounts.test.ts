@@ -132,7 +132,7 @@ describe.skipIf(!haveTestDb)('accounts, teams, invitations, resets and tokens', 
 		const team = await createTeam(db, `Tokens ${Date.now()}`, owner.id);
 		await addMember(db, team.id, eng.id, 'engineer');
 		const { id, secret } = await createApiToken(db, { teamId: team.id, userId: eng.id, name: 'ci', role: 'reviewer' });
-		expect(secret).toMatch(/^pw_[a-z2-7]{32}$/);
+		expect(secret).toMatch(/^orr_[a-z2-7]{32}$/);
 		const row = await db('api_tokens').where({ id }).first();
 		expect(row.token_hash).toBe(sha256(secret));
 		expect(row.hint).toBe(secret.slice(-4));
@@ -142,7 +142,7 @@ describe.skipIf(!haveTestDb)('accounts, teams, invitations, resets and tokens', 
 		expect(auth?.token).toEqual({ id, teamId: team.id, role: 'reviewer' });
 		expect(auth?.user.id).toBe(eng.id);
 		expect((await db('api_tokens').where({ id }).first()).last_used_at).not.toBeNull();
-		expect(await authenticateToken(db, 'pw_' + 'a'.repeat(32))).toBeNull();
+		expect(await authenticateToken(db, 'orr_' + 'a'.repeat(32))).toBeNull();
 
 		await revokeApiToken(db, id);
 		expect(await authenticateToken(db, secret)).toBeNull();

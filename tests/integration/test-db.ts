@@ -2,7 +2,7 @@ import knex, { type Knex } from 'knex';
 import knexConfig from '../../knexfile';
 
 /** True when npm test started a throwaway database for this run. */
-export const haveTestDb = process.env.PW_TEST_RUN === '1';
+export const haveTestDb = process.env.ORRERY_TEST_RUN === '1';
 
 type Migration = { up: (k: Knex) => Promise<void>; down: (k: Knex) => Promise<void> };
 

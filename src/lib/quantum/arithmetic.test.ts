@@ -7,7 +7,7 @@ import type { BodyItem, CcpLowering, CircuitDocument, LoweredCircuit, RegisterSp
 
 const LOWERINGS: CcpLowering[] = ['native', 'ancilla', 'no-ancilla', 'quarter'];
 
-const doc = (registers: RegisterSpec[], body: BodyItem[]): CircuitDocument => ({ format: 'phasewright.circuit', version: 1, title: 'arith', registers, body });
+const doc = (registers: RegisterSpec[], body: BodyItem[]): CircuitDocument => ({ format: 'orrery.circuit', version: 1, title: 'arith', registers, body });
 
 /** Bits of the register values, flat order. */
 function inputBits(c: LoweredCircuit, values: Record<string, number>): Uint8Array {

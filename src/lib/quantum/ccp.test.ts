@@ -65,7 +65,7 @@ describe('Toffoli from 6 CNOTs and H, T, T† (Nielsen and Chuang, Fig. 4.9)', (
 		const T = (i: number) => g('p', [i], 'pi/4');
 		const Td = (i: number) => g('p', [i], '-pi/4');
 		const doc: CircuitDocument = {
-			format: 'phasewright.circuit',
+			format: 'orrery.circuit',
 			version: 1,
 			title: 'toffoli',
 			registers: [{ name: 'q', size: 3 }],
@@ -86,7 +86,7 @@ describe('Toffoli from 6 CNOTs and H, T, T† (Nielsen and Chuang, Fig. 4.9)', (
 describe('every ccp lowering equals the native doubly controlled phase', () => {
 	// Registers: a (2 controls), t (target), anc (ancilla, must return to |0⟩).
 	const ccpDoc = (lowering: CcpLowering, angle: string): CircuitDocument => ({
-		format: 'phasewright.circuit',
+		format: 'orrery.circuit',
 		version: 1,
 		title: 'ccp',
 		registers: [{ name: 'a', size: 2 }, { name: 't', size: 1 }, { name: 'anc', size: 1, role: 'ancilla' }],

@@ -16,7 +16,7 @@ import type { Angle } from './angle.js';
 // Document
 
 /** Format tag of a circuit document. */
-export const CIRCUIT_FORMAT = 'phasewright.circuit';
+export const CIRCUIT_FORMAT = 'orrery.circuit';
 /** Current document version. */
 export const CIRCUIT_VERSION = 1;
 
@@ -420,4 +420,14 @@ export function flatQubit(c: { registers: PlacedRegister[] }, name: string, inde
  */
 export function fourierLevel(layout: FourierLayout, n: number, index: number): number {
 	return layout === 'swapped' ? n - index : index + 1;
+}
+
+/**
+ * A gate's name in the user's words: the saved format keeps `mcp` and `mcx`, screens say
+ * "doubly controlled phase" or "3-controlled phase". Qubit order and angles are not involved.
+ */
+export function gateDisplayName(kind: string, controls: number): string {
+	if (kind === 'mcp') return controls === 2 ? 'doubly controlled phase' : `${controls}-controlled phase`;
+	if (kind === 'mcx') return controls === 2 ? 'Toffoli' : `${controls}-controlled X`;
+	return kind;
 }

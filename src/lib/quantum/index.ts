@@ -1,5 +1,5 @@
 /**
- * Public API of the Phasewright computation core. Pure TypeScript (mathjs and zod only): runs in
+ * Public API of the Orrery computation core. Pure TypeScript (mathjs and zod only): runs in
  * a browser Web Worker, Node worker threads and the CLI.
  *
  * Conventions used by every export: qubits are {register, index} in documents and flat indices

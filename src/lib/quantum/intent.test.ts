@@ -14,7 +14,7 @@ function handAdder(tamper?: (items: BodyItem[]) => void): CircuitDocument {
 			body.push({ id: `r${k}${j}`, type: 'gate', gate: 'cp', qubits: [{ register: 'a', index: j }, { register: 'b', index: k }], angle: `${1}/${2 ** (k + 1 - j)} turn` });
 	body.push({ id: 'iqft', type: 'iqft', register: 'b', swaps: false });
 	tamper?.(body);
-	return { format: 'phasewright.circuit', version: 1, title: 'hand adder', registers: [{ name: 'a', size: 3 }, { name: 'b', size: 3 }], body };
+	return { format: 'orrery.circuit', version: 1, title: 'hand adder', registers: [{ name: 'a', size: 3 }, { name: 'b', size: 3 }], body };
 }
 const intent: RegisterIntent = { register: 'b', value: (x) => (x.get('a')! + x.get('b')!) % 8n };
 

@@ -5,7 +5,7 @@ import { gateAt, gateProvenance, GateCode, type CircuitDocument } from './circui
 
 // Invented scenario: an inventory counter for a warehouse robot fleet.
 const doc = (body: CircuitDocument['body'], registers: CircuitDocument['registers'] = [{ name: 'a', size: 3 }, { name: 'b', size: 3 }], blocks?: CircuitDocument['blocks']): CircuitDocument => ({
-	format: 'phasewright.circuit',
+	format: 'orrery.circuit',
 	version: 1,
 	title: 'fleet counter',
 	registers,

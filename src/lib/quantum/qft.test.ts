@@ -7,7 +7,7 @@ import type { CircuitDocument } from './circuit.js';
 import { circuitUnitary, cmath, distanceUpToPhase, operatorNormDistance, type CMatrix } from './testing/unitary.js';
 
 const qftDoc = (n: number, opts: { swaps?: boolean; approx?: number } = {}): CircuitDocument => ({
-	format: 'phasewright.circuit',
+	format: 'orrery.circuit',
 	version: 1,
 	title: 'qft',
 	registers: [{ name: 'x', size: n }],

@@ -6,7 +6,7 @@ import type { CircuitDocument } from './circuit.js';
 
 // Invented scenario: a greenhouse controller accumulates sensor counts into a tally register.
 const tally = (extra: CircuitDocument['body'] = [], lowering: 'native' | 'no-ancilla' = 'native'): CircuitDocument => ({
-	format: 'phasewright.circuit',
+	format: 'orrery.circuit',
 	version: 1,
 	title: 'greenhouse tally',
 	registers: [{ name: 'en', size: 1 }, { name: 'sensor', size: 3 }, { name: 'tally', size: 4 }],
@@ -65,7 +65,7 @@ describe('runs and frames', () => {
 	});
 	it('hands over to the amplitude engine when a gate entangles, and says so', () => {
 		const d: CircuitDocument = {
-			format: 'phasewright.circuit',
+			format: 'orrery.circuit',
 			version: 1,
 			title: 'bell',
 			registers: [{ name: 'r', size: 2 }],
@@ -86,7 +86,7 @@ describe('runs and frames', () => {
 	});
 	it('stops with a clear message beyond the amplitude limit', () => {
 		const d: CircuitDocument = {
-			format: 'phasewright.circuit',
+			format: 'orrery.circuit',
 			version: 1,
 			title: 'wide',
 			registers: [{ name: 'r', size: 30 }],
@@ -152,7 +152,7 @@ describe('runs and frames', () => {
 describe('replay checksums', () => {
 	it('cover the last frame even when the run is shorter than one keyframe interval', () => {
 		const c = lowerCircuit({
-			format: 'phasewright.circuit',
+			format: 'orrery.circuit',
 			version: 1,
 			title: 'short',
 			registers: [{ name: 'b', size: 3 }],

@@ -1,11 +1,12 @@
 /**
- * zod schema of the circuit document (format `phasewright.circuit`, version 1) and its parser.
+ * zod schema of the circuit document (format `orrery.circuit`, version 1) and its parser.
  * Qubit order: {register, index} with index 0 = LSB. Angle units: strings, radian expressions or
  * `"<expr> turn"`. Every error names the JSON path of the offending field (`body[2].qubits[0].index`).
  */
 import { z } from 'zod';
 import { parseAngle } from './angle.js';
 import { CIRCUIT_FORMAT, CIRCUIT_VERSION, DEFAULT_LIMITS } from './circuit.js';
+import { upgradeLegacyDocument } from './legacy.js';
 import type { BodyItem, CircuitDocument, UserBlock } from './circuit.js';
 
 const name = z.string().regex(/^[A-Za-z_][A-Za-z0-9_]*$/, 'must be an identifier (letters, digits, _; not starting with a digit)');
@@ -154,7 +155,7 @@ const GATE_ARITY: Record<string, { qubits: number | 'any'; angle: boolean; matri
  * angles, unitary matrices). Returns every issue found, each with its JSON path.
  */
 export function parseCircuitDocument(json: unknown): DocumentParseResult {
-	const parsed = circuitDocumentSchema.safeParse(json);
+	const parsed = circuitDocumentSchema.safeParse(upgradeLegacyDocument(json));
 	if (!parsed.success) {
 		return {
 			ok: false,

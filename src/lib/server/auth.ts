@@ -8,7 +8,7 @@ import { KnexLuciaAdapter } from './lucia-knex-adapter';
 export const lucia = new Lucia(new KnexLuciaAdapter(db), {
 	sessionExpiresIn: new TimeSpan(30, 'd'),
 	sessionCookie: {
-		name: 'pw_session',
+		name: 'orrery_session',
 		// lucia always sets HttpOnly; Secure follows the origin so local http still works.
 		attributes: { sameSite: 'lax', secure: config.origin.startsWith('https:') }
 	},
@@ -47,7 +47,7 @@ export async function verifyPassword(passwordHash: string, password: string): Pr
  */
 let dummyHash: Promise<string> | null = null;
 export function verifyAgainstDummy(password: string): Promise<boolean> {
-	dummyHash ??= hash('phasewright-no-such-account');
+	dummyHash ??= hash('orrery-no-such-account');
 	return dummyHash.then((h) => verifyPassword(h, password)).then(() => false);
 }
 

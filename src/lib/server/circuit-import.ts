@@ -5,7 +5,7 @@ import { MAX_CIRCUIT_UPLOAD } from '$lib/schemas/circuits';
 
 export type ImportResult = { ok: true; document: CircuitDocument; warnings: string[] } | { ok: false; errors: string[] };
 
-/** Read an uploaded circuit: OpenQASM 2.0 / 3.0 or a Phasewright JSON document. */
+/** Read an uploaded circuit: OpenQASM 2.0 / 3.0 or an Orrery JSON document. */
 export async function importCircuitFile(file: File): Promise<ImportResult> {
 	if (file.size > MAX_CIRCUIT_UPLOAD) return { ok: false, errors: [`${file.name} is ${file.size} bytes; the limit is ${MAX_CIRCUIT_UPLOAD} bytes.`] };
 	const text = await file.text();

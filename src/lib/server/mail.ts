@@ -27,7 +27,7 @@ function esc(s: string): string {
 function html(paragraphs: string[], link: { href: string; label: string }, footer: string): string {
 	return `<!doctype html><html><body style="font-family:system-ui,sans-serif;color:#1d2330;background:#f6f1e7;padding:24px">
 <div style="max-width:520px;margin:auto;background:#fffdf8;border:1px solid #d9cfbb;border-radius:10px;padding:24px">
-<p style="font-weight:600;margin-top:0">Phasewright</p>
+<p style="font-weight:600;margin-top:0">Orrery</p>
 ${paragraphs.map((p) => `<p>${esc(p)}</p>`).join('\n')}
 <p><a href="${esc(link.href)}" style="display:inline-block;background:#b8652f;color:#f6f1e7;padding:10px 16px;border-radius:8px;text-decoration:none">${esc(link.label)}</a></p>
 <p style="font-size:13px;color:#6b7284">Or paste this address into your browser: ${esc(link.href)}</p>
@@ -38,13 +38,13 @@ ${paragraphs.map((p) => `<p>${esc(p)}</p>`).join('\n')}
 export function invitationMail(p: { to: string; teamName: string; role: Role; inviterName: string; token: string }): Mail {
 	const link = absolute(routes.invite(p.token));
 	const lines = [
-		`${p.inviterName} would like you to join "${p.teamName}" on Phasewright as ${ROLE_LABEL[p.role].toLowerCase()}.`,
-		'Phasewright is where the team steps, proves and reviews its Fourier-basis arithmetic circuits.'
+		`${p.inviterName} would like you to join "${p.teamName}" on Orrery as ${ROLE_LABEL[p.role].toLowerCase()}.`,
+		'Orrery is where the team steps, proves and reviews its Fourier-basis arithmetic circuits.'
 	];
 	const footer = 'The link works once and for seven days. If you did not expect it, you can ignore this message.';
 	return {
 		to: p.to,
-		subject: `Join ${p.teamName} on Phasewright`,
+		subject: `Join ${p.teamName} on Orrery`,
 		text: `${lines.join('\n\n')}\n\nAccept the invitation:\n${link}\n\n${footer}\n`,
 		html: html(lines, { href: link, label: 'Accept the invitation' }, footer)
 	};
@@ -52,11 +52,11 @@ export function invitationMail(p: { to: string; teamName: string; role: Role; in
 
 export function passwordResetMail(p: { to: string; name: string; token: string }): Mail {
 	const link = absolute(routes.resetPassword(p.token));
-	const lines = [`Hello ${p.name},`, 'someone (we hope you) asked to set a new Phasewright password for this address.'];
+	const lines = [`Hello ${p.name},`, 'someone (we hope you) asked to set a new Orrery password for this address.'];
 	const footer = 'The link works once, for one hour. Setting a new password signs you out everywhere else. If you did not ask, ignore this message; your password stays as it is.';
 	return {
 		to: p.to,
-		subject: 'Set a new Phasewright password',
+		subject: 'Set a new Orrery password',
 		text: `${lines.join('\n')}\n\nChoose a new password:\n${link}\n\n${footer}\n`,
 		html: html(lines, { href: link, label: 'Choose a new password' }, footer)
 	};

@@ -36,7 +36,7 @@ export function reportMail(p: {
 		text: `${lines.join('\n\n')}\n\nReplay at step ${p.step}:\n${replay}\n\nThe report:\n${report}\n`,
 		html: `<!doctype html><html><body style="font-family:system-ui,sans-serif;color:#1d2330;background:#f6f1e7;padding:24px">
 <div style="max-width:520px;margin:auto;background:#fffdf8;border:1px solid #d9cfbb;border-radius:10px;padding:24px">
-<p style="font-weight:600;margin-top:0">Phasewright</p>
+<p style="font-weight:600;margin-top:0">Orrery</p>
 ${lines.map((l) => `<p>${esc(l)}</p>`).join('\n')}
 <p><a href="${esc(replay)}" style="display:inline-block;background:#b8652f;color:#f6f1e7;padding:10px 16px;border-radius:8px;text-decoration:none">Replay at step ${p.step}</a></p>
 <p style="font-size:13px;color:#6b7284">Replay: ${esc(replay)}<br>Report: ${esc(report)}</p>

@@ -163,13 +163,24 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 			}
 			g.stroke({ width: 1, color: C.tick, alpha: 0.8 });
 		}
-		if (q.kind === 'classical') {
-			if (q.bit === 1) g.circle(0, 0, 11).fill({ color: C.paper });
-			else g.circle(0, 0, 11).stroke({ width: 2, color: C.tick });
-		} else g.circle(0, 0, 3.5).fill({ color: C.paper });
+		if (q.kind === 'classical') drawBitGlyph(g, q.bit === 1 ? 1 : 0);
+		else g.circle(0, 0, 3.5).fill({ color: C.paper });
 		if (layerCache === 'whole') facesDirty = true;
 		else if (d.still.isCachedAsTexture) d.still.updateCacheTexture();
 		else d.still.cacheAsTexture({ resolution: 2, antialias: true });
+	}
+
+	// A classical bit is its digit drawn in a small square: 1 on a filled square, 0 on an open one.
+	// Stroked shapes rather than text, so the cached face needs no font.
+	function drawBitGlyph(g: Graphics, bit: 0 | 1) {
+		const h = 12;
+		if (bit === 1) {
+			g.roundRect(-h, -h, 2 * h, 2 * h, 3).fill({ color: C.paper });
+			g.moveTo(-3, -4).lineTo(1, -7).lineTo(1, 7).moveTo(-3, 7).lineTo(5, 7).stroke({ width: 2.2, color: C.panel, cap: 'round', join: 'round' });
+		} else {
+			g.roundRect(-h, -h, 2 * h, 2 * h, 3).stroke({ width: 2, color: C.tick });
+			g.ellipse(0, 0, 4.5, 7).stroke({ width: 2.2, color: C.paper });
+		}
 	}
 
 	// Per frame only transforms change (rotation, scale, tint): no geometry is rebuilt while a
@@ -219,7 +230,7 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 		const groups = groupByRegister(qubits);
 		layout = layoutDials(groups, Math.max(240, app.screen.width / world.scale.x));
 		for (const h of layout.headers) {
-			const t = new Text({ text: h.register, style: { fontFamily: 'IBM Plex Mono', fontSize: 13, fill: C.header, fontWeight: '600' } });
+			const t = new Text({ text: h.register, style: { fontFamily: 'JetBrains Mono Variable', fontSize: 13, fill: C.header, fontWeight: '600' } });
 			t.position.set(h.x, h.y);
 			world.addChild(t);
 			headers.push(t);
@@ -238,10 +249,10 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 			needle.moveTo(0, 0).lineTo(0, -(RADIUS - 5)).stroke({ width: 3, color: 0xffffff, cap: 'round' });
 			const expected = new Container();
 			expected.addChild(new Graphics().circle(0, -RADIUS, 5).stroke({ width: 2, color: C.expectedLight }));
-			const title = new BitmapText({ text: `${q.register}[${q.index}]`, style: { fontFamily: 'IBM Plex Mono', fontSize: 11, fill: C.paper } });
+			const title = new BitmapText({ text: `${q.register}[${q.index}]`, style: { fontFamily: 'JetBrains Mono Variable', fontSize: 11, fill: C.paper } });
 			title.anchor.set(0.5, 0);
 			title.position.set(0, RADIUS + 8);
-			const sub = new BitmapText({ text: '', style: { fontFamily: 'IBM Plex Mono', fontSize: 10, fill: C.tick } });
+			const sub = new BitmapText({ text: '', style: { fontFamily: 'JetBrains Mono Variable', fontSize: 10, fill: C.tick } });
 			sub.anchor.set(0.5, 0);
 			sub.position.set(0, RADIUS + 21);
 			const still = new Container();

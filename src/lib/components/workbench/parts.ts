@@ -1,6 +1,6 @@
 // The parts shelf: templates that become circuit body items when dropped on the strip.
 // Defaults are picked from the circuit's registers so a dropped part is usually valid at once.
-import type { BodyItem, CircuitDocument, GateName, RegisterSpec } from '$lib/quantum/circuit';
+import { gateDisplayName, type BodyItem, type CircuitDocument, type GateName, type RegisterSpec } from '$lib/quantum/circuit';
 
 export type PartKind =
 	| 'qft'
@@ -34,7 +34,7 @@ const GATE_HINTS: Record<GateName, string> = {
 	swap: 'exchange two qubits',
 	p: 'phase diag(1, e^{iθ})',
 	cp: 'controlled phase',
-	mcp: 'phase with many controls',
+	mcp: 'a phase on the target when every control is 1',
 	rz: 'z rotation',
 	u: 'any one-qubit unitary'
 };
@@ -47,7 +47,7 @@ const GATE_TITLES: Record<GateName, string> = {
 	swap: 'SWAP',
 	p: 'P(θ)',
 	cp: 'CP(θ)',
-	mcp: 'Multi-controlled P(θ)',
+	mcp: 'Phase, many controls',
 	rz: 'RZ(θ)',
 	u: 'U'
 };
@@ -159,7 +159,7 @@ export function describeItem(item: BodyItem): string {
 	const qr = (r: { register: string; index: number | string }) => `${r.register}[${r.index}]`;
 	switch (item.type) {
 		case 'gate':
-			return `${item.gate}${item.angle ? `(${item.angle})` : ''} ${item.qubits.map(qr).join(', ')}`;
+			return `${item.gate === 'mcp' ? gateDisplayName('mcp', item.qubits.length - 1) : item.gate}${item.angle ? `(${item.angle})` : ''} ${item.qubits.map(qr).join(', ')}`;
 		case 'qft':
 		case 'iqft':
 			return `${item.type === 'qft' ? 'QFT' : 'inverse QFT'} on ${item.register}${item.swaps === false ? ', no swaps' : ''}${item.approx !== undefined ? `, keep R_k for k ≤ ${item.approx}` : ''}`;

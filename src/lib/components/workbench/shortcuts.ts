@@ -1,4 +1,4 @@
-// Phasewright's own keyboard map for the workbench (shown in the help overlay).
+// Orrery's own keyboard map for the workbench (shown in the help overlay).
 export type ShortcutAction =
 	| 'forward'
 	| 'back'

@@ -24,7 +24,7 @@ export interface CheckBench {
 }
 
 const multiplier = (n: number, lowering: CcpLowering): CircuitDocument => ({
-	format: 'phasewright.circuit',
+	format: 'orrery.circuit',
 	version: 1,
 	title: `${n}-bit multiplier`,
 	registers: [
@@ -84,7 +84,7 @@ export const checkBenches: CheckBench[] = [
 		name: 'check-adder8',
 		run: () => {
 			const d: CircuitDocument = {
-				format: 'phasewright.circuit',
+				format: 'orrery.circuit',
 				version: 1,
 				title: 'adder',
 				registers: [

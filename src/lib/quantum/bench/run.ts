@@ -117,7 +117,7 @@ benches.push({
 });
 
 const multiplierDoc = (n: number, lowering: CcpLowering): CircuitDocument => ({
-	format: 'phasewright.circuit',
+	format: 'orrery.circuit',
 	version: 1,
 	title: `${n}x${n} multiplier`,
 	registers: [{ name: 'a', size: n }, { name: 'b', size: n }, { name: 'p', size: 2 * n }],

@@ -24,7 +24,7 @@ function expectAgreement(r: CheckReport) {
 }
 const suspectLines = (r: CheckReport) => r.suspects.flatMap((s) => [s.line, ...s.definitionLines]);
 
-const doc = (registers: CircuitDocument['registers'], body: CircuitDocument['body']): CircuitDocument => ({ format: 'phasewright.circuit', version: 1, title: 'test', registers, body });
+const doc = (registers: CircuitDocument['registers'], body: CircuitDocument['body']): CircuitDocument => ({ format: 'orrery.circuit', version: 1, title: 'test', registers, body });
 
 describe('worked examples', () => {
 	it('3-bit Fourier adder (Draper 2000, quant-ph/0008033): all 64 inputs, proved and swept', () => {

@@ -27,7 +27,7 @@ function expectSameGates(a: LoweredCircuit, b: LoweredCircuit) {
 
 // Invented demo circuit: a product and a sum on small registers, with every ccp lowering.
 const demo = (lowering: 'native' | 'no-ancilla' | 'quarter' | 'ancilla'): CircuitDocument => ({
-	format: 'phasewright.circuit',
+	format: 'orrery.circuit',
 	version: 1,
 	title: `demo ${lowering}`,
 	registers: [
@@ -66,7 +66,7 @@ describe('export then import gives the same circuit', () => {
 	});
 	it('OpenQASM 2 defines multi-controlled phases as gates; the re-import is the same unitary', () => {
 		const doc: CircuitDocument = {
-			format: 'phasewright.circuit',
+			format: 'orrery.circuit',
 			version: 1,
 			title: 'mcp',
 			registers: [{ name: 'q', size: 5 }],
@@ -78,8 +78,8 @@ describe('export then import gives the same circuit', () => {
 		};
 		const L = lowerCircuit(doc);
 		const text = exportQasm(L, { version: 2 });
-		expect(text).toContain('gate pw_mcp2(theta) c0, c1, t {');
-		expect(text).toContain('pw_mcp4(3*pi/16) q[0], q[1], q[2], q[3], q[4];');
+		expect(text).toContain('gate orr_mcp2(theta) c0, c1, t {');
+		expect(text).toContain('orr_mcp4(3*pi/16) q[0], q[1], q[2], q[3], q[4];');
 		const back = lowerCircuit(importQasm(text).document);
 		expect(unitaryDistance(circuitUnitary(L), circuitUnitary(back))).toBeLessThan(1e-9);
 	});

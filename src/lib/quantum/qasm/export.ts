@@ -64,13 +64,13 @@ export function exportQasm(circuit: CircuitDocument | LoweredCircuit, options: Q
 	const lines: string[] = [];
 	lines.push(`OPENQASM ${v}.0;`);
 	lines.push(`include "${v === 3 ? 'stdgates.inc' : 'qelib1.inc'}";`);
-	lines.push(`// ${c.title || 'circuit'}: written by Phasewright from the lowered circuit (${c.gateCount} gates).`);
+	lines.push(`// ${c.title || 'circuit'}: written by Orrery from the lowered circuit (${c.gateCount} gates).`);
 	lines.push('// Registers read little-endian: name[0] is the least-significant bit.');
 	for (const r of c.registers) lines.push(v === 3 ? `qubit[${r.size}] ${r.name};` : `qreg ${r.name}[${r.size}];`);
 	const defs: string[] = [];
 	const defined = new Set<string>();
 	const ensureMcp = (k: number): string => {
-		const name = `pw_mcp${k}`;
+		const name = `orr_mcp${k}`;
 		if (defined.has(name)) return name;
 		const cs = Array.from({ length: k }, (_, i) => `c${i}`);
 		const last = cs[k - 1];
@@ -82,7 +82,7 @@ export function exportQasm(circuit: CircuitDocument | LoweredCircuit, options: Q
 		return name;
 	};
 	const ensureMcx = (k: number): string => {
-		const name = `pw_mcx${k}`;
+		const name = `orr_mcx${k}`;
 		if (defined.has(name)) return name;
 		const cs = Array.from({ length: k }, (_, i) => `c${i}`);
 		const p = ensureMcp(k);

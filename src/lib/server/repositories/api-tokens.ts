@@ -2,7 +2,9 @@ import type { Db } from '../db';
 import { newId, newSecret, sha256 } from '../ids';
 import type { Role } from '$lib/permissions';
 
-export const TOKEN_PREFIX = 'pw_';
+export const TOKEN_PREFIX = 'orr_';
+/** Tokens made before the rename carry this prefix; they stay valid (only their sha-256 is stored). */
+const LEGACY_TOKEN_PREFIX = 'pw_';
 
 export type ApiTokenRow = {
 	id: string;
@@ -19,7 +21,7 @@ export type ApiTokenRow = {
 
 export type TokenListItem = Pick<ApiTokenRow, 'id' | 'name' | 'role' | 'hint' | 'last_used_at' | 'created_at' | 'user_id'> & { creator_name: string };
 
-/** Returns the secret once (`pw_…`); the table keeps its sha-256 and the last four characters. */
+/** Returns the secret once (`orr_…`); the table keeps its sha-256 and the last four characters. */
 export async function createApiToken(
 	db: Db,
 	t: { teamId: string; userId: string; name: string; role: Role },
@@ -70,7 +72,7 @@ export async function authenticateToken(
 	secret: string,
 	now = new Date()
 ): Promise<{ token: { id: string; teamId: string; role: Role }; user: { id: string; email: string; name: string } } | null> {
-	if (!secret.startsWith(TOKEN_PREFIX) || secret.length > 100) return null;
+	if (!(secret.startsWith(TOKEN_PREFIX) || secret.startsWith(LEGACY_TOKEN_PREFIX)) || secret.length > 100) return null;
 	const row = await db('api_tokens as k')
 		.join('users as u', 'u.id', 'k.user_id')
 		.where('k.token_hash', sha256(secret))

@@ -2,7 +2,7 @@ import { readFileSync } from 'node:fs';
 import { spawnSync } from 'node:child_process';
 import { fileURLToPath } from 'node:url';
 import { describe, expect, it } from 'vitest';
-import { main, type Io } from './phasewright.js';
+import { main, type Io } from './orrery.js';
 
 const fixtures = fileURLToPath(new URL('../lib/quantum/qasm/fixtures/', import.meta.url));
 const adder = readFileSync(`${fixtures}adder3.qasm`, 'utf8');
@@ -27,7 +27,7 @@ function run(argv: string[], files: Record<string, string> = {}) {
 	return { code, out: out.join('\n'), err: err.join('\n'), written };
 }
 
-describe('phasewright check', () => {
+describe('orrery check', () => {
 	it('exit 0 and a plain summary when every input meets the spec', () => {
 		const r = run(['check', `${fixtures}adder3.qasm`, '--spec', 'b = a + b mod 8']);
 		expect(r.code).toBe(0);
@@ -92,23 +92,23 @@ describe('run, count, convert', () => {
 		expect(a.code).toBe(0);
 		expect(a.written['out.qasm3'].startsWith('OPENQASM 3.0;')).toBe(true);
 		const b = run(['convert', `${fixtures}adder3.qasm`, 'out.json']);
-		expect(JSON.parse(b.written['out.json']).format).toBe('phasewright.circuit');
+		expect(JSON.parse(b.written['out.json']).format).toBe('orrery.circuit');
 		const c = run(['convert', 'in.json', 'back.qasm'], { 'in.json': b.written['out.json'] });
 		expect(c.written['back.qasm'].startsWith('OPENQASM 2.0;')).toBe(true);
 		expect(run(['convert', `${fixtures}adder3.qasm`, 'out.txt']).code).toBe(2);
 	});
 });
 
-describe('bin/phasewright.js', () => {
+describe('bin/orrery.js', () => {
 	it('spawns the command line and passes the exit code through', () => {
-		const bin = fileURLToPath(new URL('../../bin/phasewright.js', import.meta.url));
+		const bin = fileURLToPath(new URL('../../bin/orrery.js', import.meta.url));
 		const r = spawnSync(process.execPath, [bin, 'check', `${fixtures}adder3.qasm`, '--spec', 'b = a + b mod 8', '--json'], { encoding: 'utf8' });
 		expect(r.status).toBe(0);
 		expect(JSON.parse(r.stdout).ok).toBe(true);
 	}, 60_000);
 });
 
-describe('phasewright equiv', () => {
+describe('orrery equiv', () => {
 	const head = 'OPENQASM 3.0;\ninclude "stdgates.inc";\nqubit[2] c;\nqubit[1] t;\n';
 	const native = `${head}ctrl(2) @ p(pi/4) c[0], c[1], t[0];\n`;
 	// Barenco et al. 1995 (Phys. Rev. A 52, 3457), Lemma 6.1 with U = p(θ), V = p(θ/2): V on c1,

@@ -5,6 +5,6 @@ import { fileURLToPath } from 'node:url';
 import { dirname, join } from 'node:path';
 
 const here = dirname(fileURLToPath(import.meta.url));
-const cli = join(here, '..', 'src', 'cli', 'phasewright.ts');
+const cli = join(here, '..', 'src', 'cli', 'orrery.ts');
 const r = spawnSync(process.execPath, ['--import', 'tsx', cli, ...process.argv.slice(2)], { stdio: 'inherit' });
 process.exit(r.status ?? 2);

@@ -1,5 +1,5 @@
 /**
- * Phasewright command line: check, run, count and convert circuits (OpenQASM 2/3 or the JSON
+ * Orrery command line: check, run, count and convert circuits (OpenQASM 2/3 or the JSON
  * document). Thin: reading files and printing; the work is in src/lib/quantum.
  * Exit codes: 0 every input checked meets every spec; 1 some do not; 2 unusable file or arguments.
  */
@@ -33,7 +33,7 @@ const nodeIo: Io = {
 };
 
 
-const USAGE = `usage: phasewright <command> [options]
+const USAGE = `usage: orrery <command> [options]
   check FILE --spec "OUT = EXPR" [--spec …] [--inputs all|random:N|a=5,b=3] [--seed N] [--json]
   run FILE --input a=5,b=3 [--engine ledger|amplitudes] [--step N] [--json]
   count FILE [--json]
