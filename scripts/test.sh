@@ -2,7 +2,16 @@
 # npm test: everything from a clean clone. A throwaway MariaDB and mail fake in /dev/shm,
 # migrations, vitest (unit + integration), type checks and lint, a production build,
 # Playwright in Debian's Chromium. One closing line sums every runner.
+#
+# With arguments, only those run (for working on one part): paths ending in .spec.ts go to
+# Playwright (after a build), others to vitest; the type check and lint are skipped.
+#   bash scripts/test.sh tests/integration/accounts.test.ts tests/e2e/landing.spec.ts
 set -uo pipefail
+UNIT_ONLY=(); E2E_ONLY=()
+for a in "$@"; do
+	if [[ "$a" == *.spec.ts ]]; then E2E_ONLY+=("$a"); else UNIT_ONLY+=("$a"); fi
+done
+SUBSET=$#
 source "$(dirname "$0")/lib.sh"
 
 ensure_system_packages --with-browser
@@ -41,17 +50,21 @@ step() { # step NAME command...
 
 step migrate node --import tsx scripts/migrate.ts latest
 npx svelte-kit sync >/dev/null 2>&1
-say "── vitest"
-npx vitest run --reporter=default --reporter=json --outputFile.json="$T/vitest.json"
-step check npm run -s check
-step build npx vite build --logLevel warn
+if [ "$SUBSET" -eq 0 ] || [ ${#UNIT_ONLY[@]} -gt 0 ]; then
+	say "── vitest"
+	npx vitest run --reporter=default --reporter=json --outputFile.json="$T/vitest.json" ${UNIT_ONLY[@]+"${UNIT_ONLY[@]}"}
+fi
+[ "$SUBSET" -eq 0 ] && step check npm run -s check
+if [ "$SUBSET" -eq 0 ] || [ ${#E2E_ONLY[@]} -gt 0 ]; then step build npx vite build --logLevel warn; fi
 say "── playwright"
-if grep -q "build ok" "$STEPS"; then
+if grep -q "build ok" "$STEPS" && { [ "$SUBSET" -eq 0 ] || [ ${#E2E_ONLY[@]} -gt 0 ]; }; then
 	node --import tsx scripts/migrate.ts seed >/dev/null
-	ORRERY_JSON_REPORT="$T/playwright.json" npx playwright test
+	ORRERY_JSON_REPORT="$T/playwright.json" npx playwright test ${E2E_ONLY[@]+"${E2E_ONLY[@]}"}
 else
-	say "skipping Playwright: the build failed"
+	say "skipping Playwright (build failed or not asked for)"
 fi
 
 echo
-node scripts/test-summary.mjs "$T/vitest.json" "$T/playwright.json" "$STEPS"
+VJ="$T/vitest.json"; PJ="$T/playwright.json"
+if [ "$SUBSET" -gt 0 ]; then [ ${#UNIT_ONLY[@]} -gt 0 ] || VJ=""; [ ${#E2E_ONLY[@]} -gt 0 ] || PJ=""; fi
+node scripts/test-summary.mjs "$VJ" "$PJ" "$STEPS"

@@ -21,6 +21,11 @@ test('landing page uses the bundled fonts and never leaves 127.0.0.1', async ({ 
 		[...document.fonts].filter((f) => f.status === 'loaded').map((f) => f.family.replace(/"/g, ''))
 	);
 	expect(loaded).toContain('Space Grotesk Variable');
+	// The monospace face (angles, registers, code) is our own bundled choice.
+	const mono = await page.evaluate(() => getComputedStyle(document.querySelector('.font-mono')!).fontFamily);
+	expect(mono).toMatch(/^"?JetBrains Mono Variable/);
+	const monoLoaded = await page.evaluate(async () => (await document.fonts.load('16px "JetBrains Mono Variable"')).length);
+	expect(monoLoaded).toBeGreaterThan(0);
 	expect(fontResponses.length).toBeGreaterThan(0);
 	for (const u of fontResponses) expect(new URL(u).hostname).toBe('127.0.0.1');
 	expect(outside).toEqual([]);
