@@ -189,6 +189,12 @@ export interface CircuitDocument {
 	 * (`b = b + c*a mod 16`). Used by checks, and for expected angles in hand-written sections.
 	 */
 	specs?: string[];
+	/**
+	 * The domain of the specs: conditions over the input registers' start values that every
+	 * checked input satisfies (`b < 13`, `x < N`), as mathjs expressions. Empty or absent: every
+	 * basis input. Checks (proof and sweep) cover exactly the inputs that satisfy all of them.
+	 */
+	assume?: string[];
 }
 
 // ----------------------------------------------------------------------------------------------

@@ -114,7 +114,8 @@ export const circuitDocumentSchema = z.strictObject({
 	body: z.array(bodyItemSchema).max(100_000),
 	blocks: z.array(userBlock).max(256).optional(),
 	defaults: z.strictObject({ ccpLowering: ccpLowering.optional(), layout: layout.optional() }).optional(),
-	specs: z.array(z.string().min(1).max(500)).max(16).optional()
+	specs: z.array(z.string().min(1).max(500)).max(16).optional(),
+	assume: z.array(z.string().min(1).max(500)).max(16).optional()
 });
 
 /** One validation problem, with the JSON path of the bad field (`body[2].angle`). */
