@@ -13,6 +13,5 @@ export MAIL_DIR="${MAIL_DIR:-$ORRERY_DATA_DIR/mail}"
 export PORT="${PORT:-3000}"
 export HOST="${HOST:-127.0.0.1}"
 export ORIGIN="${ORIGIN:-http://127.0.0.1:$PORT}"
-export ORRERY_DEV_OUTBOX="${ORRERY_DEV_OUTBOX:-1}"
 # adapter-node refuses bodies over 512 KiB by default; snapshots may be up to 5 MiB (the app checks that itself).
 export BODY_SIZE_LIMIT="${BODY_SIZE_LIMIT:-8M}"

@@ -22,5 +22,8 @@ if [ ! -f build/handler.js ] || [ -n "$(find src static package-lock.json svelte
 fi
 
 node --import tsx scripts/print-demo.ts || true
+say "mail the app sends (sign-up, reset and invitation links) is written by the mail fake to $MAIL_DIR/*.eml"
 say "Orrery is running at $ORIGIN  (Ctrl-C stops the app; npm run stop stops the database and mail fake)"
+# A built app is a production app: the development outbox is off (src/lib/server/config.ts).
+export NODE_ENV=production
 exec node build

@@ -31,9 +31,23 @@ export const config = {
 	mailFrom: read('MAIL_FROM', 'Orrery <no-reply@orrery.local>'),
 	mailDir: read('MAIL_DIR', '.data/mail'),
 	origin: read('ORIGIN', 'http://127.0.0.1:3000'),
-	/** The development outbox page lists caught mail; never on in production. */
-	devOutbox: read('ORRERY_DEV_OUTBOX', '0') === '1',
 	production: read('NODE_ENV', 'development') === 'production',
 	/** Serves /bench/* pages for `npm run bench` (never set in production). */
 	benchPages: read('ORRERY_BENCH_PAGES', '0') === '1'
 };
+
+/**
+ * Whether `/dev/outbox` (the mail the local fake caught) may be served at all. It holds reset and
+ * invitation links, so it is on only under `npm run dev` (vite's dev server: `dev` from
+ * `$app/environment`) and under the test runner (ORRERY_TEST_RUN=1 with ORRERY_DEV_OUTBOX=1, as
+ * scripts/test.sh sets them). A plain `npm start` (a built app) has it off whatever else is set,
+ * and NODE_ENV=production forces it off everywhere. Even when on, the page shows a signed-in user
+ * only the mail addressed to them (see the route).
+ */
+export function outboxAllowed(env: Record<string, string | undefined>, viteDev: boolean): boolean {
+	if (env.NODE_ENV === 'production') return false;
+	const asked = env.ORRERY_DEV_OUTBOX ?? env.PW_DEV_OUTBOX;
+	if (asked === '0') return false;
+	if (viteDev) return true;
+	return env.ORRERY_TEST_RUN === '1' && asked === '1';
+}
