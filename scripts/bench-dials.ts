@@ -1,14 +1,21 @@
 // Frame time of the dial board with 256 qubits while playing, measured in Debian's Chromium
 // against the built app. Prints `bench …` lines like the core benches; the baseline is the same
 // page's frame interval with nothing changing, measured in the same run.
-import { spawn } from 'node:child_process';
+import { spawn, spawnSync } from 'node:child_process';
 import { existsSync } from 'node:fs';
 import { chromium } from '@playwright/test';
 
 const port = 4390 + Math.floor(Math.random() * 200);
-if (!existsSync('build/handler.js')) {
-	console.error('bench dials: no build/ yet; run `npx vite build` (npm start or npm test make one)');
-	process.exit(1);
+// Build first when there is no build or the sources changed since (a clean clone has none).
+const stale = !existsSync('build/handler.js') ||
+	spawnSync('bash', ['-c', 'find src static package-lock.json svelte.config.js vite.config.ts tailwind.config.ts -newer build/handler.js -print -quit'], { encoding: 'utf8' }).stdout.trim() !== '';
+if (stale) {
+	console.error('bench dials: building the app first (npx vite build)');
+	const b = spawnSync('npx', ['vite', 'build', '--logLevel', 'warn'], { stdio: 'inherit' });
+	if (b.status !== 0) {
+		console.error('bench dials: the build failed');
+		process.exit(1);
+	}
 }
 const server = spawn('node', ['build'], { env: { ...process.env, PORT: String(port), HOST: '127.0.0.1', ORIGIN: `http://127.0.0.1:${port}`, ORRERY_BENCH_PAGES: '1' }, stdio: 'ignore' });
 const stop = () => server.kill();
