@@ -28,16 +28,26 @@ export default ts.config(
 		// the DOM, Node, Svelte and the database.
 		files: ['src/lib/quantum/**/*.ts'],
 		ignores: ['src/lib/quantum/**/*.test.ts', 'src/lib/quantum/bench/**'],
+		languageOptions: { globals: { ...globals.es2021, console: 'readonly' } },
 		rules: {
 			'no-restricted-imports': [
 				'error',
 				{
 					patterns: [
 						{ group: ['node:*', 'fs', 'path', 'worker_threads', 'os'], message: 'lib/quantum must not import Node modules' },
-						{ group: ['svelte', 'svelte/*', '$app/*', '$lib/server/*', 'knex', 'mysql2'], message: 'lib/quantum must stay pure' }
+						{ group: ['svelte', 'svelte/*', '$app/*', '$lib/server/*', 'knex', 'mysql2'], message: 'lib/quantum must stay pure' },
+						{ group: ['$lib/components/*', '**/components/*'], message: 'lib/quantum must not import components' }
 					]
 				}
 			]
+		}
+	},
+	{
+		// Dependencies point one way: components use the core, the worker, state and the server, never
+		// the reverse. Shared code lives in lib/quantum, lib/dials or lib/worker.
+		files: ['src/lib/worker/**/*.ts', 'src/lib/server/**/*.ts', 'src/lib/dials/**/*.ts', 'src/cli/**/*.ts', 'seeds/**/*.ts', 'src/routes/**/*.server.ts', 'src/routes/api/**/*.ts'],
+		rules: {
+			'no-restricted-imports': ['error', { patterns: [{ group: ['$lib/components/*', '**/components/*'], message: 'import shared code from lib/quantum, lib/dials or lib/worker, not from components' }] }]
 		}
 	},
 	{

@@ -1,7 +1,7 @@
 import type { Knex } from 'knex';
 import { createHash } from 'node:crypto';
 import { newId } from '../src/lib/server/ids';
-import { demoMultiplier, plantedFaultAdder } from '../src/lib/components/workbench/templates';
+import { demoMultiplier, plantedFaultAdder } from '../src/lib/quantum/templates';
 import { lowerCircuit } from '../src/lib/quantum/lower';
 import type { CircuitDocument } from '../src/lib/quantum/circuit';
 

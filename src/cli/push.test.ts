@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { runPush, type PushIo } from './push';
-import { plantedFaultAdder } from '../lib/components/workbench/templates';
+import { plantedFaultAdder } from '../lib/quantum/templates';
 
 // The push command against a recorded fake server: what it sends and what it exits with. The
 // circuit is the invented demo adder with its planted fault (rotation c·a[1] → b[3] at pi/8).

@@ -1,7 +1,7 @@
 // Browser state of the circuit being edited: the document, undo/redo, selection, and the
 // version it was loaded from (a save sends that base so a stale save is refused, not merged).
 import type { BodyItem, CircuitDocument, RegisterSpec } from '$lib/quantum/circuit';
-import { newItemId } from '$lib/components/workbench/parts';
+import { newItemId } from '$lib/quantum/templates';
 
 const REGISTER_KEYS = new Set(['register', 'addend', 'target', 'a', 'b', 'product']);
 const NAME_RE = /^[A-Za-z_][A-Za-z0-9_]*$/;

@@ -20,7 +20,7 @@ describe('register rename', () => {
 describe('making a block of strip items', () => {
 	it('moves the items into a block called in their place, and the circuit lowers to the same gates', async () => {
 		const { CircuitEditor } = await import('./circuit-editor.svelte');
-		const { makeTemplate } = await import('$lib/components/workbench/templates');
+		const { makeTemplate } = await import('$lib/quantum/templates');
 		const { lowerCircuit } = await import('$lib/quantum/lower');
 		const { gateAt } = await import('$lib/quantum/circuit');
 		const before = makeTemplate('adder');
@@ -41,7 +41,7 @@ describe('making a block of strip items', () => {
 
 	it('refuses a bad name, a taken name and an empty range with a message', async () => {
 		const { CircuitEditor } = await import('./circuit-editor.svelte');
-		const { makeTemplate } = await import('$lib/components/workbench/templates');
+		const { makeTemplate } = await import('$lib/quantum/templates');
 		const ed = new CircuitEditor(makeTemplate('adder'), 1);
 		expect(ed.makeBlock('9lives', 0, 0)).toMatch(/starts with a letter/);
 		expect(ed.makeBlock('ok', 2, 1)).toMatch(/first not after last/);

@@ -2,7 +2,7 @@ import { readFileSync } from 'node:fs';
 import { importQasm } from '$lib/quantum/qasm/import';
 import { describe, expect, it } from 'vitest';
 import { EngineSession, handleRequest, parseInputValue, runCheck } from './engine';
-import { makeTemplate, plantedFaultAdder, demoMultiplier } from '$lib/components/workbench/templates';
+import { makeTemplate, plantedFaultAdder, demoMultiplier } from '$lib/quantum/templates';
 
 describe('engine session (what the workbench worker serves)', () => {
 	it('a 3-bit Fourier adder with a = 5, b = 6 ends with b = 3 (11 mod 8; arithmetic)', () => {

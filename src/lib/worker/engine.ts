@@ -11,7 +11,7 @@ import { proveCircuit } from '$lib/quantum/check/proof';
 import { specPolynomial, type IntPoly } from '$lib/quantum/check/spec';
 import { findFourierSections, type FourierSection } from '$lib/quantum/intent';
 import type { RegisterIntent } from '$lib/quantum/intent';
-import type { DialQubit } from '$lib/components/dials/dial-model';
+import type { DialQubit } from '$lib/dials/dial-model';
 import type { BreakpointSpec, FailureDivergence, FrameView, GateRow, LedgerView, PositionView, RunSummary, SeekKind, WorkerRequest, WorkerResponse } from './protocol';
 
 /** Most ledger rows sent for one qubit; the view says when it was cut. */

@@ -2,7 +2,7 @@
 // clone friendly (BigInt included). Qubit order: flat index, register[index] with 0 = LSB.
 // Angles in the view types are turns: a number for drawing and an exact text such as "5/16".
 import type { CircuitDocument } from '$lib/quantum/circuit';
-import type { DialQubit } from '$lib/components/dials/dial-model';
+import type { DialQubit } from '$lib/dials/dial-model';
 import type { CheckReport, ResourceCounts } from '$lib/quantum/check/index';
 
 export interface RunRequestInputs {

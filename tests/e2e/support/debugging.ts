@@ -1,6 +1,6 @@
 import { expect, type APIRequestContext } from '@playwright/test';
 import { formHeaders, freshEmail, newContext, pathOf, signUp, waitForMail } from './accounts';
-import { plantedFaultAdder } from '../../../src/lib/components/workbench/templates';
+import { plantedFaultAdder } from '../../../src/lib/quantum/templates';
 
 // A fresh team with one member of each role (plus a signed-in stranger and a visitor without a
 // session), made over HTTP the way people do it: sign-up, invitation by mail, acceptance.

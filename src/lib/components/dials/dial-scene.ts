@@ -12,7 +12,7 @@ import {
 	visibleTickCount,
 	type DialLayout,
 	type DialQubit
-} from './dial-model';
+} from '$lib/dials/dial-model';
 
 const C = {
 	background: 0x151a24,

@@ -1,6 +1,9 @@
 // The parts shelf: templates that become circuit body items when dropped on the strip.
 // Defaults are picked from the circuit's registers so a dropped part is usually valid at once.
 import { gateDisplayName, type BodyItem, type CircuitDocument, type GateName, type RegisterSpec } from '$lib/quantum/circuit';
+import { newItemId } from '$lib/quantum/templates';
+
+export { newItemId };
 
 export type PartKind =
 	| 'qft'
@@ -70,16 +73,6 @@ export const LIBRARY_PARTS: Part[] = [
 	)
 ];
 
-
-let counter = 0;
-/** A fresh, document-unique item id. */
-export function newItemId(doc: CircuitDocument, prefix = 'item'): string {
-	const taken = new Set(doc.body.map((b) => b.id));
-	let id: string;
-	do id = `${prefix}-${Date.now().toString(36)}-${(counter++).toString(36)}`;
-	while (taken.has(id));
-	return id;
-}
 
 function pick(regs: RegisterSpec[], role: RegisterSpec['role'], skip: string[] = []): string {
 	return (regs.find((r) => r.role === role && !skip.includes(r.name)) ?? regs.find((r) => !skip.includes(r.name)) ?? regs[0]).name;

@@ -6,7 +6,7 @@ import { can } from '$lib/permissions';
 import { createCircuit, deleteCircuit, findCircuit, findVersion, listCircuits } from '$lib/server/repositories/circuits';
 import { importCircuitFile } from '$lib/server/circuit-import';
 import { circuitIdSchema, newCircuitSchema } from '$lib/schemas/circuits';
-import { makeTemplate } from '$lib/components/workbench/templates';
+import { makeTemplate } from '$lib/quantum/templates';
 import { routes } from '$lib/routes';
 import type { Actions, PageServerLoad } from './$types';
 

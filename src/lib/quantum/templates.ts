@@ -1,6 +1,6 @@
 // Starting points for a new circuit, and the demo circuits of the seeds (invented scenario).
 // Qubit order: index 0 is the least significant bit. Angles are radian expressions.
-import { CIRCUIT_FORMAT, CIRCUIT_VERSION, type BodyItem, type CircuitDocument } from '../../quantum/circuit';
+import { CIRCUIT_FORMAT, CIRCUIT_VERSION, type BodyItem, type CircuitDocument } from './circuit.js';
 
 export type TemplateName = 'blank' | 'adder' | 'multiplier';
 
@@ -84,4 +84,14 @@ export function demoMultiplier(): CircuitDocument {
 	(d.body[0] as { ccpLowering?: string }).ccpLowering = 'no-ancilla';
 	d.specs = ['p = p + a*b mod 256'];
 	return d;
+}
+
+let counter = 0;
+/** A fresh, document-unique item id (for items added to a document by an editor or a template). */
+export function newItemId(doc: CircuitDocument, prefix = 'item'): string {
+	const taken = new Set(doc.body.map((b) => b.id));
+	let id: string;
+	do id = `${prefix}-${Date.now().toString(36)}-${(counter++).toString(36)}`;
+	while (taken.has(id));
+	return id;
 }
