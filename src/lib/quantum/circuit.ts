@@ -148,8 +148,72 @@ export interface CallItem extends BodyItemBase {
 	args: Record<string, string | number>;
 }
 
+/**
+ * Fields shared by the modular parts (Beauregard 2003, quant-ph/0205095). `value` (a) and
+ * `modulus` (N) are decimal integer strings; the Fourier register has n+1 qubits with N < 2^n;
+ * `ancilla` is the comparison qubit (starts and ends in |0⟩). Doubly controlled rotations use
+ * `ccpLowering` (`ccpAncilla`: the spare qubit of the `ancilla` lowering). `approx` = k keeps
+ * only QFT rotations R_d with d ≤ k inside the part.
+ */
+export interface ModularFields {
+	value: string;
+	modulus: string;
+	ancilla: QubitRef;
+	ccpLowering?: CcpLowering;
+	ccpAncilla?: QubitRef;
+	approx?: IntRef;
+}
+
+/**
+ * Modular adder of a constant (Fig. 5): target (Fourier basis, n+1 qubits, `layout`) ←
+ * (target + a) mod N when every control is 1 (0, 1 or 2 controls). Correct for target < N.
+ */
+export interface ModAddItem extends BodyItemBase, ModularFields {
+	type: 'mod-add';
+	target: string;
+	controls?: QubitRef[];
+	layout?: FourierLayout;
+}
+
+/**
+ * Modular multiplier, out of place (Fig. 6): target (computational, n+1 qubits) ←
+ * (target + a·x) mod N when the control is 1. Correct for target < N, any x of n qubits.
+ */
+export interface ModMulItem extends BodyItemBase, ModularFields {
+	type: 'mod-mul';
+	x: string;
+	target: string;
+	control?: QubitRef;
+}
+
+/**
+ * Modular multiplier in place (Fig. 7): x ← a·x mod N when the control is 1, through `work`
+ * (n+1 qubits, starts and ends at 0), a controlled swap and the inverse multiplier by a⁻¹ mod N.
+ * Needs gcd(a, N) = 1; correct for x < N.
+ */
+export interface ModMulInPlaceItem extends BodyItemBase, ModularFields {
+	type: 'mod-mul-inplace';
+	x: string;
+	work: string;
+	control?: QubitRef;
+}
+
+/**
+ * Modular exponentiation: y ← a^e·y mod N, one controlled in-place multiplier by a^(2^i) mod N
+ * per bit i of `exponent`; `work` (n+1 qubits) and the ancilla start and end at 0. Correct for y < N.
+ */
+export interface ModExpItem extends BodyItemBase, ModularFields {
+	type: 'mod-exp';
+	exponent: string;
+	y: string;
+	work: string;
+}
+
+/** Modular parts, by item type. */
+export type ModularItem = ModAddItem | ModMulItem | ModMulInPlaceItem | ModExpItem;
+
 /** One item of a circuit body. */
-export type BodyItem = GateItem | QftItem | AddItem | AddConstItem | MultiplyItem | CcpItem | CallItem;
+export type BodyItem = GateItem | QftItem | AddItem | AddConstItem | MultiplyItem | CcpItem | CallItem | ModularItem;
 
 /** Kind of a user-block parameter: a register name, an integer, or an angle string. */
 export type BlockParamKind = 'register' | 'int' | 'angle';
@@ -235,7 +299,9 @@ export type ValueExpr =
 	| { op: 'bits'; of: ValueExpr; lo: number; len: number }
 	| { op: 'add'; terms: ValueExpr[] }
 	| { op: 'mul'; factors: ValueExpr[] }
-	| { op: 'shl'; of: ValueExpr; by: number };
+	| { op: 'shl'; of: ValueExpr; by: number }
+	| { op: 'mod'; of: ValueExpr; modulus: string }
+	| { op: 'powmod'; base: string; exp: ValueExpr; modulus: string };
 
 /** What a register holds after a block: `value` mod 2^size, in the computational or Fourier basis. */
 export interface RegisterWrite {
@@ -254,7 +320,7 @@ export interface BlockEffect {
 }
 
 /** Kind of a block instance in a lowered circuit. */
-export type BlockKind = 'qft' | 'iqft' | 'add' | 'add-const' | 'multiply' | 'ccp' | 'call';
+export type BlockKind = 'qft' | 'iqft' | 'add' | 'add-const' | 'multiply' | 'ccp' | 'call' | 'mod-add' | 'mod-mul' | 'mod-mul-inplace' | 'mod-exp';
 
 /**
  * Kind-specific parameters of a lowered library block, in flat-qubit and register terms; used by
@@ -270,7 +336,35 @@ export type BlockSpec =
 			control: number | null;
 			layout: FourierLayout;
 	  }
-	| { kind: 'add-const'; target: string; value: string; shift: number; control: number | null; layout: FourierLayout }
+	| {
+			kind: 'add-const';
+			target: string;
+			value: string;
+			shift: number;
+			control: number | null;
+			layout: FourierLayout;
+			/** Every control when there are two (then `control` is the first). */
+			controls?: number[];
+			/** Inside a modular adder: what the target holds afterwards, in words ("b + a − N"). */
+			holds?: string;
+	  }
+	| {
+			kind: 'mod-add';
+			target: string;
+			value: string;
+			modulus: string;
+			controls: number[];
+			ancilla: number;
+			layout: FourierLayout;
+			/** True for the inverse (b ← b − a mod N), used by the in-place multiplier. */
+			inverse: boolean;
+			/** Gate indices of the CNOT that copies the sign into the ancilla, and of the one that clears it. */
+			compareGate: number;
+			clearGate: number;
+	  }
+	| { kind: 'mod-mul'; x: string; target: string; value: string; modulus: string; control: number | null; inverse: boolean }
+	| { kind: 'mod-mul-inplace'; x: string; work: string; value: string; inverseValue: string; modulus: string; control: number | null }
+	| { kind: 'mod-exp'; exponent: string; y: string; work: string; value: string; modulus: string }
 	| { kind: 'multiply'; a: string; b: string; product: string }
 	| { kind: 'ccp'; controls: [number, number]; target: number; angle: Angle; lowering: CcpLowering; ancilla: number | null }
 	| { kind: 'call'; block: string; args: Record<string, string | number> };

@@ -10,6 +10,7 @@
  * rotation unit (one (j, k) pair, i.e. one cp or one whole ccp lowering). An expectation stays
  * valid ("fresh") until a gate touches the qubit again.
  */
+import { powMod } from './modular.js';
 import { GateCode, fourierLevel, type BlockInstance, type FourierLayout, type LoweredCircuit, type PlacedRegister, type ValueExpr } from './circuit.js';
 
 /** Kind codes of expectation events. */
@@ -113,6 +114,15 @@ export function evaluateValue(e: ValueExpr, values: (name: string) => bigint | n
 				t *= v;
 			}
 			return t;
+		}
+		case 'mod': {
+			const v = evaluateValue(e.of, values);
+			const m = BigInt(e.modulus);
+			return v === null ? null : ((v % m) + m) % m;
+		}
+		case 'powmod': {
+			const x = evaluateValue(e.exp, values);
+			return x === null ? null : powMod(BigInt(e.base), x, BigInt(e.modulus));
 		}
 	}
 }

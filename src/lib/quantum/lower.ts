@@ -38,6 +38,8 @@ import {
 	type ValueExpr
 } from './circuit.js';
 import { readCircuitDocument } from './schema.js';
+import { checkModularParameters, modInverse, multiplierConstants, powMod } from './modular.js';
+import type { ModularItem } from './circuit.js';
 
 /** Options of {@link lowerCircuit}. */
 export interface LoweringOptions {
@@ -350,9 +352,15 @@ export function lowerCircuit(input: CircuitDocument | unknown, options: Lowering
 				const shift = intOf(item.shift, 0, env, `${path}.shift`);
 				const control = item.control ? qubitOf(item.control, env, `${path}.control`) : null;
 				if (control !== null && inReg(control, tgt)) throw new LoweringError('control must not be a qubit of the target', `${path}.control`);
-				emitAddConst(id, label, tgt, BigInt(item.value), shift, control, item.layout ?? defaultLayout, item.source);
+				emitAddConst(id, label, tgt, BigInt(item.value), shift, control !== null ? [control] : [], item.layout ?? defaultLayout, defaultCcp, null, item.source);
 				return;
 			}
+			case 'mod-add':
+			case 'mod-mul':
+			case 'mod-mul-inplace':
+			case 'mod-exp':
+				lowerModular(item, id, env, path);
+				return;
 			case 'multiply': {
 				const a = regOf(item.a, env, `${path}.a`);
 				const b = regOf(item.b, env, `${path}.b`);
@@ -589,29 +597,27 @@ export function lowerCircuit(input: CircuitDocument | unknown, options: Lowering
 		tgt: PlacedRegister,
 		value: bigint,
 		shift: number,
-		control: number | null,
+		controls: number[],
 		layout: FourierLayout,
-		source: SourcePosition | undefined
+		lowering: CcpLowering,
+		anc: number | null,
+		source: SourcePosition | undefined,
+		holds?: string
 	): void => {
-		const ctlName = control !== null ? qubitName(control) : null;
+		const ctlText = controls.map((q) => `${qubitName(q)}·`).join('');
 		const added: ValueExpr = { op: 'const', value: String(value << BigInt(shift)) };
+		const term: ValueExpr = controls.length ? { op: 'mul', factors: [...controls.map(bitExpr), added] } : added;
 		const effect: BlockEffect = {
-			text: `${tgt.name} ← ${tgt.name} + ${ctlName ? `${ctlName}·` : ''}${value}${shift ? `·2^${shift}` : ''} mod 2^${tgt.size} (Fourier basis, ${layout})`,
-			writes: [
-				{
-					register: tgt.name,
-					basis: 'fourier',
-					layout,
-					value: { op: 'add', terms: [reg(tgt.name), control !== null ? { op: 'mul', factors: [bitExpr(control), added] } : added] }
-				}
-			],
+			text: `${tgt.name} ← ${tgt.name} + ${ctlText}${value}${shift ? `·2^${shift}` : ''} mod 2^${tgt.size} (Fourier basis, ${layout})`,
+			writes: [{ register: tgt.name, basis: 'fourier', layout, value: { op: 'add', terms: [reg(tgt.name), term] } }],
 			requires: [{ register: tgt.name, basis: 'fourier', layout }]
 		};
+		const control = controls.length ? controls[0] : null;
 		const b = sink.open(
 			'add-const',
 			id,
-			label ?? `${tgt.name} += ${ctlName ? `${ctlName}·` : ''}${value}${shift ? `·2^${shift}` : ''}`,
-			{ kind: 'add-const', target: tgt.name, value: String(value), shift, control, layout },
+			label ?? `${tgt.name} += ${controls.length === 1 ? `${qubitName(controls[0])}·` : controls.length ? `${ctlText}` : ''}${value}${shift ? `·2^${shift}` : ''}`,
+			{ kind: 'add-const', target: tgt.name, value: String(value), shift, control, layout, ...(controls.length > 1 ? { controls } : {}), ...(holds ? { holds } : {}) },
 			effect,
 			['j'],
 			source
@@ -622,10 +628,234 @@ export function lowerCircuit(input: CircuitDocument | unknown, options: Lowering
 			const ang = dyadic(c, m);
 			if (ang === ZERO_ANGLE || (ang.exact && ang.num === 0n)) continue;
 			sink.l0 = j;
-			if (control === null) sink.g1(GateCode.p, tgt.offset + j, sink.angleId(ang));
-			else sink.g2(GateCode.cp, 1, control, tgt.offset + j, sink.angleId(ang));
+			if (controls.length === 0) sink.g1(GateCode.p, tgt.offset + j, sink.angleId(ang));
+			else if (controls.length === 1) sink.g2(GateCode.cp, 1, controls[0], tgt.offset + j, sink.angleId(ang));
+			else emitCcp(controls[0], controls[1], tgt.offset + j, ang, lowering, anc);
 		}
 		sink.close(b);
+	};
+
+	// ------------------------------------------------------------------------------------------
+	// Modular parts (Beauregard 2003, quant-ph/0205095, Figs. 5–7)
+
+	const lowerModular = (item: ModularItem, id: string, env: Env, path: string): void => {
+		const regField = (field: string): PlacedRegister => regOf((item as unknown as Record<string, string>)[field], env, `${path}.${field}`);
+		const sizeOf = (name: string): number | undefined => {
+			const actual = env.regs.get(name) ?? name;
+			return regByName.get(actual)?.size;
+		};
+		for (const issue of checkModularParameters(item, sizeOf)) if (issue.blocking) throw new LoweringError(issue.message, `${path}.${issue.field}`);
+		const a = BigInt(item.value);
+		const N = BigInt(item.modulus);
+		const anc = qubitOf(item.ancilla, env, `${path}.ancilla`);
+		const lowering = item.ccpLowering ?? defaultCcp;
+		const fourier = regField(item.type === 'mod-add' || item.type === 'mod-mul' ? 'target' : 'work');
+		const approx = intOf(item.approx, fourier.size, env, `${path}.approx`);
+		if (approx < 1) throw new LoweringError('approx must be at least 1', `${path}.approx`);
+		const used: PlacedRegister[] = [fourier];
+		const controls: number[] = [];
+		if (item.type === 'mod-add') (item.controls ?? []).forEach((q, j) => controls.push(qubitOf(q, env, `${path}.controls[${j}]`)));
+		else if (item.type !== 'mod-exp' && item.control) controls.push(qubitOf(item.control, env, `${path}.control`));
+		if (item.type === 'mod-mul' || item.type === 'mod-mul-inplace') used.push(regField('x'));
+		if (item.type === 'mod-exp') used.push(regField('y'), regField('exponent'));
+		if (new Set(used).size !== used.length) throw new LoweringError('the part needs distinct registers', path);
+		if (used.some((r) => inReg(anc, r))) throw new LoweringError('the ancilla must not be a qubit of the part’s registers', `${path}.ancilla`);
+		controls.forEach((c, j) => {
+			const field = item.type === 'mod-add' ? `controls[${j}]` : 'control';
+			if (c === anc || used.some((r) => inReg(c, r))) throw new LoweringError('a control must be distinct from the part’s registers and its ancilla', `${path}.${field}`);
+		});
+		if (new Set(controls).size !== controls.length) throw new LoweringError('the two controls must differ', `${path}.controls`);
+		// Doubly controlled rotations appear whenever an adder has two controls.
+		const needsCcp = item.type === 'mod-exp' || (item.type === 'mod-add' ? controls.length === 2 : controls.length === 1);
+		let spare: number | null = null;
+		if (needsCcp && lowering === 'ancilla') {
+			if (item.ccpAncilla) spare = qubitOf(item.ccpAncilla, env, `${path}.ccpAncilla`);
+			else {
+				for (const r of registers) {
+					if (r.role !== 'ancilla') continue;
+					for (let i = 0; i < r.size && spare === null; i++) if (r.offset + i !== anc && !controls.includes(r.offset + i)) spare = r.offset + i;
+				}
+				if (spare === null) throw new LoweringError('ccp lowering "ancilla" needs a second ancilla qubit besides the comparison ancilla: set ccpAncilla', `${path}.ccpAncilla`);
+			}
+			if (spare === anc || controls.includes(spare) || used.some((r) => inReg(spare!, r))) throw new LoweringError('ccpAncilla must be distinct from the part’s registers, controls and ancilla', `${path}.ccpAncilla`);
+		}
+		const opts: ModOpts = { lowering, spare, approx, source: item.source };
+		switch (item.type) {
+			case 'mod-add':
+				emitModAdd(id, item.label, fourier, a, N, controls, anc, item.layout ?? defaultLayout, false, opts);
+				return;
+			case 'mod-mul':
+				emitModMul(id, item.label, regField('x'), fourier, a, N, controls[0] ?? null, anc, false, opts);
+				return;
+			case 'mod-mul-inplace':
+				emitModMulInPlace(id, item.label, regField('x'), fourier, a, N, controls[0] ?? null, anc, opts);
+				return;
+			case 'mod-exp':
+				emitModExp(id, item.label, regField('exponent'), regField('y'), fourier, a, N, anc, opts);
+				return;
+		}
+	};
+
+	interface ModOpts {
+		lowering: CcpLowering;
+		spare: number | null;
+		approx: number;
+		source: SourcePosition | undefined;
+	}
+
+	const ctlFactors = (controls: number[]): ValueExpr[] => controls.map(bitExpr);
+	const modOf = (of: ValueExpr, N: bigint): ValueExpr => ({ op: 'mod', of, modulus: String(N) });
+
+	/**
+	 * Fig. 5: φ(b) → φ((b + a) mod N) when every control is 1 (time order): add a, subtract N,
+	 * inverse QFT, CNOT(top → ancilla), QFT, add N controlled by the ancilla, subtract a, inverse QFT,
+	 * X·CNOT·X (top → ancilla) clearing it, QFT, add a. `inverse`: the exact reverse (b − a mod N).
+	 */
+	const emitModAdd = (id: string, label: string | undefined, b: PlacedRegister, a: bigint, N: bigint, controls: number[], anc: number, layout: FourierLayout, inverse: boolean, o: ModOpts): number => {
+		const ctl = controls.map((q) => `${qubitName(q)}·`).join('');
+		const sign = inverse ? '−' : '+';
+		const change: ValueExpr = { op: 'mul', factors: [{ op: 'const', value: String(inverse ? -a : a) }, ...ctlFactors(controls)] };
+		const effect: BlockEffect = {
+			text: `${b.name} ← (${b.name} ${sign} ${ctl}${a}) mod ${N} (Fourier basis, ${layout}; needs ${b.name} < ${N}; ancilla ${qubitName(anc)} back to 0)`,
+			writes: [{ register: b.name, basis: 'fourier', layout, value: modOf({ op: 'add', terms: [reg(b.name), change] }, N) }],
+			requires: [{ register: b.name, basis: 'fourier', layout }]
+		};
+		const spec: BlockSpec = { kind: 'mod-add', target: b.name, value: String(a), modulus: String(N), controls, ancilla: anc, layout, inverse, compareGate: -1, clearGate: -1 };
+		const blk = sink.open('mod-add', id, label ?? `${b.name} ← ${b.name} ${sign} ${ctl}${a} mod ${N}`, spec, effect, [], o.source);
+		const top = b.offset + b.size - 1;
+		const swaps = layout === 'swapped';
+		type Step = { k: 'add'; v: bigint; ctl: number[]; name: string; holds: string } | { k: 'qft' | 'iqft' } | { k: 'copy' } | { k: 'clear' };
+		// Words for what b holds after each add, with ctl-a written "a" (0 when a control is off).
+		const steps: Step[] = [
+			{ k: 'add', v: a, ctl: controls, name: 'add a', holds: 'b + a' },
+			{ k: 'add', v: -N, ctl: [], name: 'subtract N', holds: 'b + a − N' },
+			{ k: 'iqft' },
+			{ k: 'copy' },
+			{ k: 'qft' },
+			{ k: 'add', v: N, ctl: [anc], name: 'add N back if b + a < N', holds: '(b + a) mod N' },
+			{ k: 'add', v: -a, ctl: controls, name: 'subtract a', holds: '(b + a) mod N − a' },
+			{ k: 'iqft' },
+			{ k: 'clear' },
+			{ k: 'qft' },
+			{ k: 'add', v: a, ctl: controls, name: 'add a', holds: '(b + a) mod N' }
+		];
+		const run: Step[] = inverse
+			? steps
+					.slice()
+					.reverse()
+					.map((s) => (s.k === 'add' ? { ...s, v: -s.v, name: s.name.startsWith('add') ? s.name.replace(/^add/, 'subtract') : s.name.replace(/^subtract/, 'add') } : s.k === 'qft' ? { k: 'iqft' } : s.k === 'iqft' ? { k: 'qft' } : s))
+			: steps;
+		let n = 0;
+		for (const s of run) {
+			const local = `${id}/${n++}`;
+			if (s.k === 'add') {
+				emitAddConst(local, s.name, b, s.v, 0, s.ctl, layout, o.lowering, s.ctl.length > 1 ? o.spare : null, o.source, inverse ? undefined : s.holds);
+			} else if (s.k === 'qft' || s.k === 'iqft') {
+				emitQft(s.k, local, s.k === 'qft' ? `QFT(${b.name})` : `inverse QFT(${b.name})`, b, swaps, o.approx, o.source);
+			} else if (s.k === 'copy') {
+				spec.compareGate = sink.count;
+				sink.g2(GateCode.cx, 1, top, anc);
+			} else {
+				sink.g1(GateCode.x, top);
+				spec.clearGate = sink.count;
+				sink.g2(GateCode.cx, 1, top, anc);
+				sink.g1(GateCode.x, top);
+			}
+		}
+		sink.close(blk);
+		return blk;
+	};
+
+	/** Fig. 6: b ← (b + c·a·x) mod N, b computational (QFT without swaps inside), adds of 2^j·a mod N controlled by (c, x_j). */
+	const emitModMul = (id: string, label: string | undefined, x: PlacedRegister, b: PlacedRegister, a: bigint, N: bigint, control: number | null, anc: number, inverse: boolean, o: ModOpts): void => {
+		const ctl = control !== null ? [bitExpr(control)] : [];
+		const sign = inverse ? '−' : '+';
+		const effect: BlockEffect = {
+			text: `${b.name} ← (${b.name} ${sign} ${control !== null ? `${qubitName(control)}·` : ''}${a}·${x.name}) mod ${N} (computational basis before and after; needs ${b.name} < ${N})`,
+			writes: [{ register: b.name, basis: 'computational', value: modOf({ op: 'add', terms: [reg(b.name), { op: 'mul', factors: [{ op: 'const', value: String(inverse ? -a : a) }, ...ctl, reg(x.name)] }] }, N) }],
+			requires: [
+				{ register: b.name, basis: 'computational' },
+				{ register: x.name, basis: 'computational' }
+			]
+		};
+		const blk = sink.open('mod-mul', id, label ?? `${b.name} ← ${b.name} ${sign} ${a}·${x.name} mod ${N}`, { kind: 'mod-mul', x: x.name, target: b.name, value: String(a), modulus: String(N), control, inverse }, effect, [], o.source);
+		const consts = multiplierConstants(a, N, x.size);
+		emitQft('qft', `${id}/qft`, `QFT(${b.name})`, b, false, o.approx, o.source);
+		const order = inverse ? consts.map((_, j) => x.size - 1 - j) : consts.map((_, j) => j);
+		for (const j of order) {
+			const ctls = control !== null ? [control, x.offset + j] : [x.offset + j];
+			const bi = emitModAdd(`${id}/add[${j}]`, `${inverse ? '−' : '+'}${consts[j]} mod ${N} if ${ctls.map(qubitName).join('·')}`, b, consts[j], N, ctls, anc, 'unswapped', inverse, o);
+			sink.blocks[bi].loopContext = { j };
+		}
+		emitQft('iqft', `${id}/iqft`, `inverse QFT(${b.name})`, b, false, o.approx, o.source);
+		sink.close(blk);
+	};
+
+	/** Fig. 7: x ← a·x mod N when c: multiply into work, swap x with work's low n qubits (controlled), un-multiply by a⁻¹. */
+	const emitModMulInPlace = (id: string, label: string | undefined, x: PlacedRegister, w: PlacedRegister, a: bigint, N: bigint, control: number | null, anc: number, o: ModOpts): number => {
+		const inv = modInverse(a % N, N)!;
+		const prod: ValueExpr = modOf({ op: 'mul', factors: [{ op: 'const', value: String(a) }, reg(x.name)] }, N);
+		const value: ValueExpr =
+			control === null ? prod : { op: 'add', terms: [reg(x.name), { op: 'mul', factors: [bitExpr(control), { op: 'add', terms: [prod, { op: 'mul', factors: [{ op: 'const', value: '-1' }, reg(x.name)] }] }] }] };
+		const effect: BlockEffect = {
+			text: `${x.name} ← ${a}·${x.name} mod ${N}${control !== null ? ` if ${qubitName(control)}` : ''} (needs ${x.name} < ${N}; ${w.name} and the ancilla back to 0; a⁻¹ = ${inv})`,
+			writes: [
+				{ register: x.name, basis: 'computational', value },
+				{ register: w.name, basis: 'computational', value: { op: 'const', value: '0' } }
+			],
+			requires: [
+				{ register: x.name, basis: 'computational' },
+				{ register: w.name, basis: 'computational' }
+			]
+		};
+		const blk = sink.open(
+			'mod-mul-inplace',
+			id,
+			label ?? `${x.name} ← ${a}·${x.name} mod ${N}${control !== null ? ` if ${qubitName(control)}` : ''}`,
+			{ kind: 'mod-mul-inplace', x: x.name, work: w.name, value: String(a), inverseValue: String(inv), modulus: String(N), control },
+			effect,
+			['j'],
+			o.source
+		);
+		emitModMul(`${id}/mul`, undefined, x, w, a, N, control, anc, false, o);
+		for (let j = 0; j < x.size; j++) {
+			sink.l0 = j;
+			const p = x.offset + j;
+			const q = w.offset + j;
+			if (control === null) sink.g2(GateCode.swap, 0, p, q);
+			else {
+				sink.g2(GateCode.cx, 1, q, p);
+				sink.g3(GateCode.ccx, control, p, q);
+				sink.g2(GateCode.cx, 1, q, p);
+			}
+		}
+		sink.l0 = -1;
+		emitModMul(`${id}/unmul`, undefined, x, w, inv, N, control, anc, true, o);
+		sink.close(blk);
+		return blk;
+	};
+
+	/** y ← a^e·y mod N: controlled in-place multipliers by a^(2^i) mod N for each exponent bit e_i. */
+	const emitModExp = (id: string, label: string | undefined, e: PlacedRegister, y: PlacedRegister, w: PlacedRegister, a: bigint, N: bigint, anc: number, o: ModOpts): void => {
+		const effect: BlockEffect = {
+			text: `${y.name} ← ${a}^${e.name}·${y.name} mod ${N} (needs ${y.name} < ${N}; ${w.name} and the ancilla back to 0)`,
+			writes: [
+				{ register: y.name, basis: 'computational', value: modOf({ op: 'mul', factors: [{ op: 'powmod', base: String(a), exp: reg(e.name), modulus: String(N) }, reg(y.name)] }, N) },
+				{ register: w.name, basis: 'computational', value: { op: 'const', value: '0' } }
+			],
+			requires: [
+				{ register: y.name, basis: 'computational' },
+				{ register: w.name, basis: 'computational' },
+				{ register: e.name, basis: 'computational' }
+			]
+		};
+		const blk = sink.open('mod-exp', id, label ?? `${y.name} ← ${a}^${e.name}·${y.name} mod ${N}`, { kind: 'mod-exp', exponent: e.name, y: y.name, work: w.name, value: String(a), modulus: String(N) }, effect, [], o.source);
+		for (let i = 0; i < e.size; i++) {
+			const ai = powMod(a, 1n << BigInt(i), N);
+			const bi = emitModMulInPlace(`${id}/pow[${i}]`, `${y.name} ← ${ai}·${y.name} mod ${N} if ${e.name}[${i}]`, y, w, ai, N, e.offset + i, anc, o);
+			sink.blocks[bi].loopContext = { i };
+		}
+		sink.close(blk);
 	};
 
 	const emitMultiply = (

@@ -85,8 +85,23 @@ const callItem = z.strictObject({
 	args: z.record(z.string(), z.union([z.string(), z.number().int()]))
 });
 
+const decimal = z.string().regex(/^\d{1,30}$/, 'must be a non-negative decimal integer');
+const modular = {
+	...base,
+	value: decimal,
+	modulus: decimal,
+	ancilla: qubitRef,
+	ccpLowering: ccpLowering.optional(),
+	ccpAncilla: qubitRef.optional(),
+	approx: intRef.optional()
+};
+const modAddItem = z.strictObject({ ...modular, type: z.literal('mod-add'), target: name, controls: z.array(qubitRef).max(2, 'at most two controls').optional(), layout: layout.optional() });
+const modMulItem = z.strictObject({ ...modular, type: z.literal('mod-mul'), x: name, target: name, control: qubitRef.optional() });
+const modMulInPlaceItem = z.strictObject({ ...modular, type: z.literal('mod-mul-inplace'), x: name, work: name, control: qubitRef.optional() });
+const modExpItem = z.strictObject({ ...modular, type: z.literal('mod-exp'), exponent: name, y: name, work: name });
+
 /** zod schema of one body item (discriminated by `type`). */
-export const bodyItemSchema = z.discriminatedUnion('type', [gateItem, qftItem, addItem, addConstItem, multiplyItem, ccpItem, callItem]);
+export const bodyItemSchema = z.discriminatedUnion('type', [gateItem, qftItem, addItem, addConstItem, multiplyItem, ccpItem, callItem, modAddItem, modMulItem, modMulInPlaceItem, modExpItem]);
 
 const userBlock = z.strictObject({
 	name,
@@ -292,6 +307,21 @@ function checkBody(
 				angleOk(item.angle, `${p}.angle`);
 				if (item.ancilla) qubitOk(item.ancilla, `${p}.ancilla`);
 				break;
+			case 'mod-add':
+			case 'mod-mul':
+			case 'mod-mul-inplace':
+			case 'mod-exp': {
+				const regFields = item.type === 'mod-add' ? ['target'] : item.type === 'mod-mul' ? ['x', 'target'] : item.type === 'mod-mul-inplace' ? ['x', 'work'] : ['exponent', 'y', 'work'];
+				const rec = item as unknown as Record<string, string>;
+				for (const f of regFields) regOk(rec[f], `${p}.${f}`);
+				if (new Set(regFields.map((f) => rec[f])).size !== regFields.length) issues.push({ path: `${p}.${regFields[regFields.length - 1]}`, message: `${regFields.join(', ')} must be distinct registers` });
+				qubitOk(item.ancilla, `${p}.ancilla`);
+				if (item.ccpAncilla) qubitOk(item.ccpAncilla, `${p}.ccpAncilla`);
+				if (item.approx !== undefined) intOk(item.approx, `${p}.approx`);
+				if (item.type === 'mod-add') (item.controls ?? []).forEach((q, j) => qubitOk(q, `${p}.controls[${j}]`));
+				else if (item.type !== 'mod-exp' && item.control) qubitOk(item.control, `${p}.control`);
+				break;
+			}
 			case 'call': {
 				const b = blocks.get(item.block);
 				if (!b) {

@@ -6,13 +6,13 @@
  * Qubit order: register value Σ bit_i·2^i (index 0 = LSB); angles in turns.
  */
 import type { LoweredCircuit, PlacedRegister } from '../circuit.js';
-import { parseSpec, specPolynomial, evaluateSpec, type IntPoly, type Spec } from './spec.js';
+import { parseSpec, parseCondition, specPolynomial, evaluateSpec, type IntPoly, type Spec } from './spec.js';
 import { proveCircuit, type ProofResult, type WrongTerm } from './proof.js';
 import { sweepCircuit, type InputChoice, type SweepCase } from './sweep.js';
 import { findSuspects, type Suspect } from './suspects.js';
 import { countResources, type ResourceCounts } from './resources.js';
 
-export { parseSpec, SpecError, evaluateSpec } from './spec.js';
+export { parseSpec, SpecError, evaluateSpec, parseCondition, satisfiesConditions } from './spec.js';
 export { proveCircuit } from './proof.js';
 export { sweepCircuit, createRng } from './sweep.js';
 export { countResources } from './resources.js';
@@ -32,6 +32,8 @@ export interface CheckOptions {
 	onProgress?: (done: number, total: number) => void;
 	/** For imported files: body item id → lines of the `gate` definitions it went through (suspects then name them too). */
 	definitionLines?: Map<string, number[]>;
+	/** Domain conditions (the document's `assume`): only inputs satisfying all of them are checked. */
+	assume?: string[];
 }
 
 /** The report `check --json` prints (stable field names). */
@@ -48,6 +50,8 @@ export interface CheckReport {
 	proof: { status: ProofResult['status'] | 'skipped'; reason: string | null; sections: ProofResult['sections']; termsChecked: number; registerMismatches: ProofResult['registerMismatches'] };
 	specs: string[];
 	inputs: { registers: string[]; bits: number };
+	/** The domain checked: its conditions and how many inputs of it ran (all of them when exhaustive). */
+	domain: { conditions: string[]; inputs: number };
 	engines: { ledger: number; amplitudes: number };
 	resources: ResourceCounts;
 	notes: string[];
@@ -87,19 +91,21 @@ function mobiusPolynomial(spec: Spec, inputs: PlacedRegister[]): IntPoly | null 
 export function checkCircuit(c: LoweredCircuit, specTexts: string[], options: CheckOptions = {}): CheckReport {
 	if (specTexts.length === 0) throw new RangeError('at least one spec is needed, e.g. "b = a + b mod 8"');
 	const specs = specTexts.map((t) => parseSpec(t, c.registers));
+	const domain = (options.assume ?? []).map((t) => parseCondition(t, c.registers));
 	const outs = new Set<string>();
 	for (const s of specs) {
 		if (outs.has(s.out)) throw new RangeError(`two specs name register ${s.out}`);
 		outs.add(s.out);
 	}
 	const notes: string[] = ['simulated, not a hardware run'];
-	const inputNames = new Set(specs.flatMap((s) => s.reads));
+	const inputNames = new Set([...specs.flatMap((s) => s.reads), ...domain.flatMap((d) => d.reads)]);
 	const inputs = c.registers.filter((r) => inputNames.has(r.name));
 	const zeros = c.registers.filter((r) => !inputNames.has(r.name)).map((r) => r.name);
 	if (zeros.length) notes.push(`registers starting at 0: ${zeros.join(', ')}`);
 	const choice: InputChoice = options.inputs ?? { mode: 'auto', sample: 1000, seed: 1 };
-	const sweep = sweepCircuit(c, specs, { choice, maxAmplitudeQubits: options.maxAmplitudeQubits, onProgress: options.onProgress });
-	if (!sweep.exhaustive) notes.push(choice.mode === 'given' ? 'one given input' : `random sample of ${sweep.cases} inputs (seeded)`);
+	const sweep = sweepCircuit(c, specs, { choice, maxAmplitudeQubits: options.maxAmplitudeQubits, onProgress: options.onProgress, domain });
+	if (!sweep.exhaustive) notes.push(choice.mode === 'given' ? 'one given input' : `random sample of ${sweep.cases} inputs (seeded)${domain.length ? ' inside the domain' : ''}`);
+	if (domain.length) notes.push(`domain: ${domain.map((d) => d.text).join(' and ')}${sweep.exhaustive ? ` (${sweep.cases} of ${2 ** sweep.inputBits} basis inputs)` : ''}`);
 
 	let proof: ProofResult | null = null;
 	let proofReason: string | null = null;
@@ -113,6 +119,7 @@ export function checkCircuit(c: LoweredCircuit, specTexts: string[], options: Ch
 			}
 			outputs.set(s.out, p);
 		}
+		if (!proofReason && domain.length) proofReason = 'the prover here does not take domain conditions yet; only the sweep over the domain ran';
 		if (!proofReason) {
 			proof = proveCircuit(c, { inputs: inputNames, outputs });
 			if (proof.status === 'outside') proofReason = `outside the Fourier form at gate ${proof.atGate}: ${proof.reason}; only a sweep ran`;
@@ -151,6 +158,7 @@ export function checkCircuit(c: LoweredCircuit, specTexts: string[], options: Ch
 		},
 		specs: specs.map((s) => s.text),
 		inputs: { registers: sweep.inputRegisters, bits: sweep.inputBits },
+		domain: { conditions: domain.map((d) => d.text), inputs: sweep.cases },
 		engines: sweep.engines,
 		resources: countResources(c),
 		notes

@@ -158,6 +158,25 @@ export function evaluateNode(node: MathNode, values: Map<string, bigint>): bigin
 					return a[0] | a[1];
 				case 'bitXor':
 					return a[0] ^ a[1];
+				// Comparisons and connectives (domain conditions): 1n for true, 0n for false.
+				case 'smaller':
+					return a[0] < a[1] ? 1n : 0n;
+				case 'smallerEq':
+					return a[0] <= a[1] ? 1n : 0n;
+				case 'larger':
+					return a[0] > a[1] ? 1n : 0n;
+				case 'largerEq':
+					return a[0] >= a[1] ? 1n : 0n;
+				case 'equal':
+					return a[0] === a[1] ? 1n : 0n;
+				case 'unequal':
+					return a[0] !== a[1] ? 1n : 0n;
+				case 'and':
+					return a[0] !== 0n && a[1] !== 0n ? 1n : 0n;
+				case 'or':
+					return a[0] !== 0n || a[1] !== 0n ? 1n : 0n;
+				case 'not':
+					return a[0] === 0n ? 1n : 0n;
 			}
 			throw new RangeError(`operator ${nd.fn as string} is not supported in specs`);
 		}
@@ -175,6 +194,44 @@ export function evaluateNode(node: MathNode, values: Map<string, bigint>): bigin
 		}
 	}
 	throw new RangeError(`cannot evaluate ${nd.type}`);
+}
+
+/** A domain condition over register start values (`b < N`, `x < 21 and y == 1`). */
+export interface Condition {
+	text: string;
+	expr: MathNode;
+	reads: string[];
+}
+
+const COMPARISONS = new Set(['smaller', 'smallerEq', 'larger', 'largerEq', 'equal', 'unequal', 'and', 'or', 'not']);
+
+/**
+ * Parse a domain condition: a comparison (or `and`/`or`/`not` of comparisons) over register
+ * names and integers, as in the document's `assume`. Throws {@link SpecError} naming the column.
+ */
+export function parseCondition(text: string, registers: { name: string; size: number }[]): Condition {
+	const head = `${registers[0]?.name ?? 'x'} = `;
+	const shift = head.length;
+	const col = (c: number) => Math.max(1, c - shift);
+	let probe: Spec;
+	try {
+		probe = parseSpec(head + text, registers.length ? registers : [{ name: 'x', size: 1 }]);
+	} catch (e) {
+		if (e instanceof SpecError) throw new SpecError(text, col(e.column), e.detail);
+		throw e;
+	}
+	if (probe.modulus) throw new SpecError(text, 1, 'a condition has no trailing "mod"; write (x mod M) < K');
+	const top = probe.expr as unknown as { type: string; fn?: string; content?: MathNode };
+	let node = top;
+	while (node.type === 'ParenthesisNode') node = node.content as unknown as typeof top;
+	if (node.type !== 'OperatorNode' || !COMPARISONS.has(node.fn!)) throw new SpecError(text, col(shift + 1), 'expected a comparison such as "b < 13" or "x < 21 and y == 1"');
+	return { text, expr: probe.expr, reads: probe.reads };
+}
+
+/** True when the register values satisfy every condition (exact). */
+export function satisfiesConditions(conditions: Condition[], values: Map<string, bigint>): boolean {
+	for (const c of conditions) if (evaluateNode(c.expr, values) === 0n) return false;
+	return true;
 }
 
 /** Value the spec requires of its output register, mod 2^size (exact). */

@@ -10,7 +10,7 @@
 import { applyLedgerGate, buildLedgerTables, createLedgerState, LedgerKind, ledgerToAmplitudes } from '../ledger.js';
 import { applyLoweredGates, buildGateTables, AMPLITUDE_QUBIT_LIMITS } from '../amplitudes.js';
 import type { LoweredCircuit, PlacedRegister } from '../circuit.js';
-import { evaluateSpec, type Spec } from './spec.js';
+import { evaluateSpec, satisfiesConditions, type Condition, type Spec } from './spec.js';
 
 /** Which inputs to run: every basis input, a seeded random sample, or given values. */
 export type InputChoice = { mode: 'all' } | { mode: 'random'; count: number; seed: number } | { mode: 'given'; values: Map<string, bigint> } | { mode: 'auto'; sample: number; seed: number };
@@ -35,6 +35,10 @@ export interface SweepResult {
 	engines: { ledger: number; amplitudes: number };
 	inputRegisters: string[];
 	inputBits: number;
+	/** The domain conditions the inputs satisfied (empty: every basis input). */
+	domain: string[];
+	/** Inputs drawn but outside the domain (skipped). */
+	outsideDomain: number;
 }
 
 /** Options of {@link sweepCircuit}. */
@@ -46,6 +50,10 @@ export interface SweepOptions {
 	/** Inputs with at most this many bits together are swept exhaustively in `auto` mode (default 16). */
 	exhaustiveBits?: number;
 	onProgress?: (done: number, total: number) => void;
+	/** Domain: only inputs satisfying every condition are run (and counted). */
+	domain?: Condition[];
+	/** Random sampling inside a domain tries at most this many inputs per wanted case (default 64). */
+	rejectionFactor?: number;
 }
 
 /** A small seeded PRNG (splitmix32); 32-bit outputs. */
@@ -74,7 +82,8 @@ export const SUCCESS_TOLERANCE = 1e-9;
  * register starts at 0 and must end at 0 unless a spec names it.
  */
 export function sweepCircuit(c: LoweredCircuit, specs: Spec[], options: SweepOptions): SweepResult {
-	const inputNames = [...new Set(specs.flatMap((s) => s.reads))];
+	const domain = options.domain ?? [];
+	const inputNames = [...new Set([...specs.flatMap((s) => s.reads), ...domain.flatMap((d) => d.reads)])];
 	const inputs = c.registers.filter((r) => inputNames.includes(r.name));
 	const bits = inputs.reduce((s, r) => s + r.size, 0);
 	const keep = options.keepFailures ?? 20;
@@ -82,7 +91,7 @@ export function sweepCircuit(c: LoweredCircuit, specs: Spec[], options: SweepOpt
 	const lt = buildLedgerTables(c);
 	let gt: ReturnType<typeof buildGateTables> | null = null;
 	const specByOut = new Map(specs.map((s) => [s.out, s]));
-	const result: SweepResult = { cases: 0, failed: 0, exhaustive: false, worstSuccessProbability: 1, worstInput: null, failures: [], engines: { ledger: 0, amplitudes: 0 }, inputRegisters: inputs.map((r) => r.name), inputBits: bits };
+	const result: SweepResult = { cases: 0, failed: 0, exhaustive: false, worstSuccessProbability: 1, worstInput: null, failures: [], engines: { ledger: 0, amplitudes: 0 }, inputRegisters: inputs.map((r) => r.name), inputBits: bits, domain: domain.map((d) => d.text), outsideDomain: 0 };
 
 	let choice = options.choice;
 	if (choice.mode === 'auto') choice = bits <= (options.exhaustiveBits ?? 16) ? { mode: 'all' } : { mode: 'random', count: choice.sample, seed: choice.seed };
@@ -116,16 +125,26 @@ export function sweepCircuit(c: LoweredCircuit, specs: Spec[], options: SweepOpt
 	} else {
 		const rng = createRng(choice.seed);
 		total = choice.count;
+		// Rejection sampling inside the domain, bounded by tries (work), not by luck.
+		let budget = total * (options.rejectionFactor ?? 64);
 		next = () => {
-			const m = new Map<string, bigint>();
-			for (const r of c.registers) m.set(r.name, inputNames.includes(r.name) ? randomBits(rng, r.size) : 0n);
-			return m;
+			for (;;) {
+				const m = new Map<string, bigint>();
+				for (const r of c.registers) m.set(r.name, inputNames.includes(r.name) ? randomBits(rng, r.size) : 0n);
+				if (!domain.length || satisfiesConditions(domain, m)) return m;
+				result.outsideDomain++;
+				if (--budget <= 0) throw new RangeError(`the domain (${domain.map((d) => d.text).join(' and ')}) holds too few inputs to sample: ${result.outsideDomain} drawn inputs fell outside it; sweep every input instead`);
+			}
 		};
 	}
 	const bitsArr = new Uint8Array(c.qubitCount);
 	const expBits = new Uint8Array(c.qubitCount);
 	for (let i = 0; i < total; i++) {
 		const values = next(i);
+		if (choice.mode === 'all' && domain.length && !satisfiesConditions(domain, values)) {
+			result.outsideDomain++;
+			continue;
+		}
 		const expected = new Map<string, bigint>();
 		for (const r of c.registers) {
 			const s = specByOut.get(r.name);

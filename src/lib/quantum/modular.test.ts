@@ -1,0 +1,216 @@
+import { describe, expect, it } from 'vitest';
+import { lowerCircuit, LoweringError } from './lower.js';
+import type { BodyItem, CcpLowering, CircuitDocument, RegisterSpec } from './circuit.js';
+import { gcd, modInverse, powMod, multiplierConstants, checkModularParameters } from './modular.js';
+import { sweepCircuit } from './check/sweep.js';
+import { parseSpec, parseCondition } from './check/spec.js';
+import { applyLedgerGate, buildLedgerTables, createLedgerState, LedgerKind } from './ledger.js';
+
+// Modular parts after Beauregard 2003 (quant-ph/0205095): Fig. 5 (adder), Fig. 6 (multiplier),
+// Fig. 7 (in-place multiplier). Expected values are plain modular arithmetic, computed here.
+
+const doc = (registers: RegisterSpec[], body: BodyItem[]): CircuitDocument => ({ format: 'orrery.circuit', version: 1, title: 'modular', registers, body });
+
+function sweepAll(d: CircuitDocument, spec: string, domain: string[]) {
+	const c = lowerCircuit(d);
+	const s = parseSpec(spec, c.registers);
+	return sweepCircuit(c, [s], { choice: { mode: 'all' }, domain: domain.map((t) => parseCondition(t, c.registers)) });
+}
+
+const LOWERINGS: CcpLowering[] = ['native', 'ancilla', 'no-ancilla', 'quarter'];
+
+describe('number theory helpers', () => {
+	it('gcd, inverse and powers agree with direct arithmetic', () => {
+		for (let N = 2n; N < 40n; N++)
+			for (let a = 1n; a < N; a++) {
+				const inv = modInverse(a, N);
+				if (gcd(a, N) === 1n) expect((a * inv!) % N).toBe(1n);
+				else expect(inv).toBeNull();
+			}
+		expect(powMod(7n, 4n, 15n)).toBe(2401n % 15n);
+		expect(multiplierConstants(4n, 21n, 5)).toEqual([4n, 8n, 16n, 11n, 1n]);
+	});
+	it('parameter rules name the field', () => {
+		const size = (r: string) => ({ b: 5, x: 4, w: 5 })[r as 'b'];
+		const base = { id: 'm', ancilla: { register: 'anc', index: 0 } };
+		expect(checkModularParameters({ ...base, type: 'mod-add', target: 'b', value: '3', modulus: '1' }, size)[0]).toMatchObject({ field: 'modulus', blocking: true });
+		expect(checkModularParameters({ ...base, type: 'mod-add', target: 'b', value: '3', modulus: '16' }, size)[0]).toMatchObject({ field: 'modulus', blocking: true });
+		expect(checkModularParameters({ ...base, type: 'mod-add', target: 'b', value: '20', modulus: '13' }, size)[0]).toMatchObject({ field: 'value', blocking: false });
+		const g = checkModularParameters({ ...base, type: 'mod-mul-inplace', x: 'x', work: 'w', value: '6', modulus: '15' }, size);
+		expect(g[0]).toMatchObject({ field: 'value', blocking: true });
+		expect(g[0].message).toContain('gcd(a, N) = 3');
+		expect(checkModularParameters({ ...base, type: 'mod-mul-inplace', x: 'x', work: 'w', value: '7', modulus: '15' }, size)).toEqual([]);
+	});
+	it('lowering refuses gcd(a, N) ≠ 1 at the value field', () => {
+		const d = doc(
+			[{ name: 'x', size: 4 }, { name: 'w', size: 5 }, { name: 'anc', size: 1, role: 'ancilla' }],
+			[{ id: 'm', type: 'mod-mul-inplace', x: 'x', work: 'w', value: '5', modulus: '15', ancilla: { register: 'anc', index: 0 } }]
+		);
+		expect(() => lowerCircuit(d)).toThrow(LoweringError);
+		expect(() => lowerCircuit(d)).toThrow(/body\[0\]\.value: gcd\(a, N\) = 5/);
+	});
+});
+
+describe('modular adder (Fig. 5): exhaustive sweep over b < N, every control pattern and lowering', () => {
+	const cases: { n: number; N: number; a: number }[] = [
+		{ n: 2, N: 3, a: 2 },
+		{ n: 3, N: 5, a: 3 },
+		{ n: 3, N: 7, a: 6 },
+		{ n: 4, N: 13, a: 5 },
+		{ n: 4, N: 11, a: 10 },
+		{ n: 5, N: 21, a: 8 },
+		{ n: 5, N: 31, a: 30 }
+	];
+	for (const { n, N, a } of cases)
+		for (const controls of [0, 1, 2])
+			for (const lowering of controls === 2 ? LOWERINGS : (['native'] as CcpLowering[]))
+				it(`n = ${n}, N = ${N}, a = ${a}, ${controls} control(s)${controls === 2 ? `, ${lowering}` : ''}`, () => {
+					const regs: RegisterSpec[] = [
+						{ name: 'c', size: 2, role: 'input' },
+						{ name: 'b', size: n + 1, role: 'output' },
+						{ name: 'anc', size: 2, role: 'ancilla' }
+					];
+					const ctl = [{ register: 'c', index: 0 }, { register: 'c', index: 1 }].slice(0, controls);
+					const d = doc(regs, [
+						{ id: 'f', type: 'qft', register: 'b', swaps: false },
+						{ id: 'm', type: 'mod-add', target: 'b', value: String(a), modulus: String(N), controls: ctl, ancilla: { register: 'anc', index: 0 }, ccpLowering: lowering },
+						{ id: 'g', type: 'iqft', register: 'b', swaps: false }
+					]);
+					const factor = controls === 0 ? '' : controls === 1 ? '(c mod 2)*' : '(c == 3)*';
+					const r = sweepAll(d, `b = b + ${factor}${a} mod ${N}`, [`b < ${N}`]);
+					expect(r.exhaustive).toBe(true);
+					expect(r.cases).toBe((controls ? 4 : 1) * N); // every c the spec reads, every b < N
+					expect(r.failed).toBe(0); // includes: anc back to |0⟩ on every input
+				});
+	it('the swapped layout works too (QFT with swaps around it)', () => {
+		const d = doc(
+			[{ name: 'b', size: 5 }, { name: 'anc', size: 1, role: 'ancilla' }],
+			[
+				{ id: 'f', type: 'qft', register: 'b' },
+				{ id: 'm', type: 'mod-add', target: 'b', value: '9', modulus: '13', layout: 'swapped', ancilla: { register: 'anc', index: 0 } },
+				{ id: 'g', type: 'iqft', register: 'b' }
+			]
+		);
+		expect(sweepAll(d, 'b = b + 9 mod 13', ['b < 13']).failed).toBe(0);
+	});
+	it('a constant not reduced mod N is caught: it fails on some b < N', () => {
+		const d = doc(
+			[{ name: 'b', size: 6 }, { name: 'anc', size: 1, role: 'ancilla' }],
+			[
+				{ id: 'f', type: 'qft', register: 'b', swaps: false },
+				{ id: 'm', type: 'mod-add', target: 'b', value: '46', modulus: '21', ancilla: { register: 'anc', index: 0 } },
+				{ id: 'g', type: 'iqft', register: 'b', swaps: false }
+			]
+		);
+		const r = sweepAll(d, 'b = b + 46 mod 21', ['b < 21']);
+		expect(r.failed).toBeGreaterThan(0);
+	});
+});
+
+describe('modular multiplier, out of place (Fig. 6): b ← (b + c·a·x) mod N over b < N', () => {
+	for (const { n, N, a } of [
+		{ n: 2, N: 3, a: 2 },
+		{ n: 3, N: 7, a: 3 },
+		{ n: 4, N: 15, a: 7 }
+	])
+		for (const controlled of [false, true])
+			for (const lowering of controlled ? LOWERINGS : (['native'] as CcpLowering[]))
+				it(`n = ${n}, N = ${N}, a = ${a}${controlled ? `, controlled, ${lowering}` : ''}`, () => {
+					const d = doc(
+						[
+							{ name: 'c', size: 1 },
+							{ name: 'x', size: n },
+							{ name: 'b', size: n + 1 },
+							{ name: 'anc', size: 2, role: 'ancilla' }
+						],
+						[{ id: 'm', type: 'mod-mul', x: 'x', target: 'b', value: String(a), modulus: String(N), ancilla: { register: 'anc', index: 0 }, ccpLowering: lowering, ...(controlled ? { control: { register: 'c', index: 0 } } : {}) }]
+					);
+					const r = sweepAll(d, `b = b + ${controlled ? 'c*' : ''}${a}*x mod ${N}`, [`b < ${N}`, ...(controlled ? [] : ['c == 0'])]);
+					expect(r.cases).toBe((controlled ? 2 : 1) * N * 2 ** n);
+					expect(r.failed).toBe(0);
+				});
+});
+
+describe('modular multiplier in place (Fig. 7): x ← a·x mod N over x < N, work and ancilla clean', () => {
+	for (const { n, N, a } of [
+		{ n: 2, N: 3, a: 2 },
+		{ n: 3, N: 5, a: 3 },
+		{ n: 3, N: 7, a: 5 },
+		{ n: 4, N: 15, a: 7 },
+		{ n: 4, N: 15, a: 11 }
+	])
+		for (const controlled of [false, true])
+			for (const lowering of controlled ? LOWERINGS : (['native'] as CcpLowering[]))
+				it(`n = ${n}, N = ${N}, a = ${a} (a⁻¹ = ${modInverse(BigInt(a), BigInt(N))})${controlled ? `, controlled, ${lowering}` : ''}`, () => {
+					const d = doc(
+						[
+							{ name: 'c', size: 1 },
+							{ name: 'x', size: n },
+							{ name: 'w', size: n + 1, role: 'work' },
+							{ name: 'anc', size: 2, role: 'ancilla' }
+						],
+						[{ id: 'm', type: 'mod-mul-inplace', x: 'x', work: 'w', value: String(a), modulus: String(N), ancilla: { register: 'anc', index: 0 }, ccpLowering: lowering, ...(controlled ? { control: { register: 'c', index: 0 } } : {}) }]
+					);
+					const spec = controlled ? `x = x + c*(${a}*x mod ${N} - x)` : `x = ${a}*x mod ${N}`;
+					const r = sweepAll(d, spec, [`x < ${N}`, ...(controlled ? ['c < 2'] : ['c == 0'])]);
+					expect(r.cases).toBe((controlled ? 2 : 1) * N);
+					expect(r.failed).toBe(0); // w and anc end at 0 on every input
+				});
+});
+
+/** Run the lowered circuit on one basis input with the exact ledger engine; read back every register. */
+function runBasis(d: CircuitDocument, input: Record<string, number>): Record<string, number> {
+	const c = lowerCircuit(d);
+	const bits = new Uint8Array(c.qubitCount);
+	for (const r of c.registers) for (let i = 0; i < r.size; i++) bits[r.offset + i] = ((input[r.name] ?? 0) >> i) & 1;
+	const lt = buildLedgerTables(c);
+	const s = createLedgerState(c.qubitCount, bits);
+	for (let g = 0; g < c.gateCount; g++) if (!applyLedgerGate(s, c, lt, g, null)) throw new Error(`gate ${g} left the ledger`);
+	const out: Record<string, number> = {};
+	for (const r of c.registers) {
+		let v = 0;
+		for (let i = 0; i < r.size; i++) {
+			expect(s.kind[r.offset + i]).toBe(LedgerKind.classical);
+			v += s.bit[r.offset + i] << i;
+		}
+		out[r.name] = v;
+	}
+	return out;
+}
+
+describe('worked example: modular exponentiation on basis inputs (exact ledger engine)', () => {
+	// Nielsen & Chuang, Quantum Computation and Quantum Information, §5.3.1 (Box 5.4, factoring
+	// 15 with x = 7) lists 7^k mod 15 = 1, 7, 4, 13, 1, 7, 4, 13, … (from memory); the values
+	// are also plain arithmetic, computed here with powMod as the independent check.
+	const expMod = (a: number, N: number, n: number, e: number) => {
+		const d = doc(
+			[
+				{ name: 'e', size: e, role: 'input' },
+				{ name: 'y', size: n, role: 'output' },
+				{ name: 'w', size: n + 1, role: 'work' },
+				{ name: 'anc', size: 1, role: 'ancilla' }
+			],
+			[{ id: 'exp', type: 'mod-exp', exponent: 'e', y: 'y', work: 'w', value: String(a), modulus: String(N), ancilla: { register: 'anc', index: 0 } }]
+		);
+		const got: number[] = [];
+		for (let x = 0; x < 2 ** e; x++) {
+			const r = runBasis(d, { e: x, y: 1 });
+			expect(r.w).toBe(0);
+			expect(r.anc).toBe(0);
+			expect(r.e).toBe(x);
+			got.push(r.y);
+		}
+		return got;
+	};
+	it('7^x mod 15 for every x of a 4-bit exponent register', () => {
+		const got = expMod(7, 15, 4, 4);
+		expect(got.slice(0, 8)).toEqual([1, 7, 4, 13, 1, 7, 4, 13]); // the table, period 4
+		expect(got).toEqual(Array.from({ length: 16 }, (_, x) => Number(powMod(7n, BigInt(x), 15n))));
+	});
+	it('2^x mod 21 for every x of a 6-bit exponent register', () => {
+		const got = expMod(2, 21, 5, 6);
+		// 2^x mod 21: 1, 2, 4, 8, 16, 11, then repeats (period 6) — plain arithmetic.
+		expect(got.slice(0, 7)).toEqual([1, 2, 4, 8, 16, 11, 1]);
+		expect(got).toEqual(Array.from({ length: 64 }, (_, x) => Number(powMod(2n, BigInt(x), 21n))));
+	});
+});
