@@ -18,6 +18,8 @@ export interface DialQubit {
 	/** Expected angle in turns where the circuit states one, with its exact text. */
 	expected?: number;
 	expectedText?: string;
+	/** What the expectation means, when a part says (a modular adder's ancilla: "b + a < N: 2 + 4 < 21 holds"). */
+	expectedNote?: string;
 	/** Divergence actual − expected in (−½, ½] turn; 0 when in phase. */
 	divergence?: number;
 	divergenceText?: string;

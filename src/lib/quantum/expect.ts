@@ -30,7 +30,16 @@ export interface ExpectationEvents {
 	boundary: Uint8Array;
 	/** Problems noticed (block requirements not met, unknown inputs). */
 	warnings: { block: number; message: string }[];
+	/**
+	 * Words beside some expectations, keyed `${step}:${qubit}`: the comparison a modular adder's
+	 * ancilla holds ("b + a < N: 2 + 46 < 21 fails"), or a Fourier value read as signed
+	 * ("b + a − N = −3").
+	 */
+	notes?: Map<string, string>;
 }
+
+/** Key of {@link ExpectationEvents.notes}. */
+export const noteKey = (step: number, qubit: number): string => `${step}:${qubit}`;
 
 /** Semantic state of one register during the expectation pass. */
 interface RegState {
@@ -48,6 +57,7 @@ class EventSink implements ExpectationEvents {
 	num: bigint[] = [];
 	boundary = new Uint8Array(1024);
 	warnings: { block: number; message: string }[] = [];
+	notes = new Map<string, string>();
 	push(step: number, qubit: number, kind: number, level: number, num: bigint, boundary: number): void {
 		if (this.length === this.step.length) {
 			const cap = this.length * 2;
@@ -167,8 +177,24 @@ export function computeExpectations(c: LoweredCircuit, inputs: Map<string, bigin
 		return (st.value >> BigInt(q - r.offset)) & 1n;
 	};
 
+	/** Gates whose target bit is stated by meaning (a modular adder's comparison ancilla), not by simulation. */
+	const overrides = new Map<number, { qubit: number; bit: bigint; note: string }>();
+
 	/** A gate outside any library block: classical gates on known computational registers stay known. */
 	const rawGate = (g: number) => {
+		const ov = overrides.get(g);
+		if (ov) {
+			overrides.delete(g);
+			const r = c.registers[regOfQubit[ov.qubit]];
+			const st = env.get(r.name)!;
+			if (st.value !== null && st.basis === 'computational') {
+				const m = 1n << BigInt(ov.qubit - r.offset);
+				st.value = ov.bit ? st.value | m : st.value & ~m;
+				touched(g, (q) => stateFromEnv(g + 1, q, 0));
+				ev.notes.set(noteKey(g + 1, ov.qubit), ov.note);
+				return;
+			}
+		}
 		const k = c.kinds[g];
 		const classical = k === GateCode.x || k === GateCode.cx || k === GateCode.ccx || k === GateCode.mcx || k === GateCode.swap;
 		let ok = classical;
@@ -242,6 +268,40 @@ export function computeExpectations(c: LoweredCircuit, inputs: Map<string, bigin
 			const v = ok ? evaluateValue(w.value, (n) => entry.get(n) ?? null) : null;
 			env.set(w.register, { basis: w.basis, layout: w.layout ?? 'unswapped', value: v === null ? null : mod2(v, r.size) });
 			stateRegister(b.end, r, 1);
+			if (v !== null && b.spec.kind === 'add-const' && b.spec.holds && w.register === b.spec.target) {
+				// Two's complement over the register: the construction's values lie in (−2^(m−1), 2^(m−1)).
+				const u = mod2(v, r.size);
+				const signed = u >= 1n << BigInt(r.size - 1) ? u - (1n << BigInt(r.size)) : u;
+				const note = `${b.spec.holds} = ${signed}`;
+				for (let i = 0; i < r.size; i++) ev.notes.set(noteKey(b.end, r.offset + i), note);
+			}
+		}
+	};
+
+	/** State the comparison ancilla of a modular adder by meaning: [b + a < N] after the copy, 0 after the clear. */
+	const modAddAncilla = (b: BlockInstance, entry: Map<string, bigint | null>) => {
+		const spec = b.spec;
+		if (spec.kind !== 'mod-add') return;
+		const bv = entry.get(spec.target);
+		if (bv === null || bv === undefined) return;
+		let on = true;
+		for (const q of spec.controls) {
+			const cb = bitOf(q);
+			if (cb === null) return;
+			if (cb === 0n) on = false;
+		}
+		const a = BigInt(spec.value);
+		const N = BigInt(spec.modulus);
+		const ca = on ? a : 0n;
+		const off = spec.controls.length && !on ? ' (control off, a counts as 0)' : '';
+		if (!spec.inverse) {
+			const holds = bv + ca < N;
+			overrides.set(spec.compareGate, { qubit: spec.ancilla, bit: holds ? 1n : 0n, note: `b + a < N${off}: ${bv} + ${ca} < ${N} ${holds ? 'holds' : 'fails'}` });
+			overrides.set(spec.clearGate, { qubit: spec.ancilla, bit: 0n, note: 'cleared: (b + a) mod N ≥ a' });
+		} else {
+			const holds = bv >= ca;
+			overrides.set(spec.clearGate, { qubit: spec.ancilla, bit: holds ? 1n : 0n, note: `b − a ≥ 0${off}: ${bv} − ${ca} ≥ 0 ${holds ? 'holds' : 'fails'}` });
+			overrides.set(spec.compareGate, { qubit: spec.ancilla, bit: 0n, note: 'cleared' });
 		}
 	};
 
@@ -255,7 +315,8 @@ export function computeExpectations(c: LoweredCircuit, inputs: Map<string, bigin
 		for (const [k, v] of env) entry.set(k, v.value);
 		const ok = requirementsMet(b);
 		if (ok) {
-			if (spec.kind === 'multiply') processRange(b.index, b.start, b.end);
+			if (spec.kind === 'mod-add') modAddAncilla(b, entry);
+			if (spec.kind === 'multiply' || spec.kind === 'mod-add' || spec.kind === 'mod-mul' || spec.kind === 'mod-mul-inplace' || spec.kind === 'mod-exp') processRange(b.index, b.start, b.end);
 			else if (spec.kind === 'qft' || spec.kind === 'iqft') partialsQft(b, spec.kind, regByName.get(spec.register)!, entry.get(spec.register)!, spec.swaps);
 			else if (spec.kind === 'add' || spec.kind === 'add-const') partialsAdd(b, entry);
 		} else {
@@ -328,10 +389,10 @@ export function computeExpectations(c: LoweredCircuit, inputs: Map<string, bigin
 		const tgt = regByName.get(spec.target)!;
 		const base = entry.get(spec.target)!;
 		let ctl = 1n;
-		if (spec.control !== null) {
-			const cb = bitOf(spec.control);
+		for (const q of spec.kind === 'add-const' && spec.controls ? spec.controls : spec.control !== null ? [spec.control] : []) {
+			const cb = bitOf(q);
 			if (cb === null) return;
-			ctl = cb;
+			ctl *= cb;
 		}
 		const addend = spec.kind === 'add' ? entry.get(spec.addend)! : BigInt(spec.value);
 		let g = b.start;

@@ -332,6 +332,7 @@ class Events implements ExpectationEvents {
 	num: bigint[] = [];
 	boundary = new Uint8Array(0);
 	warnings: { block: number; message: string }[] = [];
+	notes?: Map<string, string>;
 	private rows: [number, number, number, number, bigint, number][] = [];
 	push(step: number, qubit: number, kind: number, level: number, num: bigint, boundary: number) {
 		this.rows.push([step, qubit, kind, level, num, boundary]);
@@ -370,5 +371,6 @@ export function mergeExpectations(base: ExpectationEvents, extra: ExpectationEve
 	const out = new Events();
 	out.finish(rows.map((r) => [r[0], r[1], r[2], r[3], r[4], r[5]]));
 	out.warnings = [...base.warnings, ...extra.warnings];
+	if (base.notes || extra.notes) out.notes = new Map([...(base.notes ?? []), ...(extra.notes ?? [])]);
 	return out;
 }

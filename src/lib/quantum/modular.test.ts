@@ -4,6 +4,8 @@ import type { BodyItem, CcpLowering, CircuitDocument, RegisterSpec } from './cir
 import { gcd, modInverse, powMod, multiplierConstants, checkModularParameters } from './modular.js';
 import { sweepCircuit } from './check/sweep.js';
 import { parseSpec, parseCondition } from './check/spec.js';
+import { Run } from './run.js';
+import { checkCircuit } from './check/index.js';
 import { applyLedgerGate, buildLedgerTables, createLedgerState, LedgerKind } from './ledger.js';
 
 // Modular parts after Beauregard 2003 (quant-ph/0205095): Fig. 5 (adder), Fig. 6 (multiplier),
@@ -212,5 +214,97 @@ describe('worked example: modular exponentiation on basis inputs (exact ledger e
 		// 2^x mod 21: 1, 2, 4, 8, 16, 11, then repeats (period 6) — plain arithmetic.
 		expect(got.slice(0, 7)).toEqual([1, 2, 4, 8, 16, 11, 1]);
 		expect(got).toEqual(Array.from({ length: 64 }, (_, x) => Number(powMod(2n, BigInt(x), 21n))));
+	});
+});
+
+describe('dials: expected values inside the modular adder follow the construction', () => {
+	const adder = (a: number) =>
+		doc(
+			[
+				{ name: 'b', size: 6, role: 'output' },
+				{ name: 'anc', size: 1, role: 'ancilla' }
+			],
+			[
+				{ id: 'f', type: 'qft', register: 'b', swaps: false },
+				{ id: 'm', type: 'mod-add', target: 'b', value: String(a), modulus: '21', ancilla: { register: 'anc', index: 0 } },
+				{ id: 'g', type: 'iqft', register: 'b', swaps: false }
+			]
+		);
+	it('a correct adder never departs from its expectations; the ancilla carries its comparison', () => {
+		for (const b of [0, 2, 17, 20]) {
+			const c = lowerCircuit(adder(16));
+			const run = new Run(c, { values: { b } });
+			expect(run.firstDivergenceStep()).toBeNull();
+			const m = c.blocks.find((x) => x.itemId === 'm')!;
+			if (m.spec.kind !== 'mod-add') throw new Error('spec');
+			const anc = c.registers[1].offset;
+			const f = run.frameAt(m.spec.compareGate + 1).qubits[anc];
+			expect(f.expected).toMatchObject({ kind: 'classical', bit: b + 16 < 21 ? 1 : 0 });
+			expect(f.expected?.note).toBe(`b + a < N: ${b} + 16 < 21 ${b + 16 < 21 ? 'holds' : 'fails'}`);
+			// after "subtract N" the Fourier register reads b + a − N, negative when b + a < N
+			const sub = c.blocks.find((x) => x.label === 'subtract N')!;
+			const top = run.frameAt(sub.end).qubits[c.registers[0].offset + 5];
+			expect(top.expected?.note).toBe(`b + a − N = ${b + 16 - 21}`);
+		}
+	});
+	it('a constant not reduced mod N first departs at the ancilla, which shows the wrong comparison', () => {
+		const c = lowerCircuit(adder(46)); // 46 ≡ 4 mod 21, written unreduced
+		// b = 10: b + a − N = 35 ≥ 2^5 sets the top qubit, so the copy writes 1 where "b + a < N" fails.
+		const run = new Run(c, { values: { b: 10 } });
+		const m = c.blocks.find((x) => x.itemId === 'm')!;
+		if (m.spec.kind !== 'mod-add') throw new Error('spec');
+		const step = run.firstDivergenceStep();
+		expect(step).toBe(m.spec.compareGate + 1);
+		const q = run.frameAt(step!).qubits[c.registers[1].offset];
+		expect(q.state).toMatchObject({ kind: 'classical', bit: 1 });
+		expect(q.expected).toMatchObject({ kind: 'classical', bit: 0, note: 'b + a < N: 10 + 46 < 21 fails' });
+		expect(q.matches).toBe(false);
+		// and the whole adder gives 56, not (10 + 46) mod 21 = 14
+		expect(run.frameAt(c.gateCount).registerValues.b).toBe(56n);
+	});
+});
+
+describe('check over a domain', () => {
+	it('checkCircuit with assume runs only the domain, says so, and leaves the prover out', () => {
+		const d = doc(
+			[
+				{ name: 'b', size: 5, role: 'output' },
+				{ name: 'anc', size: 1, role: 'ancilla' }
+			],
+			[
+				{ id: 'f', type: 'qft', register: 'b', swaps: false },
+				{ id: 'm', type: 'mod-add', target: 'b', value: '9', modulus: '13', ancilla: { register: 'anc', index: 0 } },
+				{ id: 'g', type: 'iqft', register: 'b', swaps: false }
+			]
+		);
+		const c = lowerCircuit(d);
+		const r = checkCircuit(c, ['b = b + 9 mod 13'], { assume: ['b < 13'] });
+		expect(r.ok).toBe(true);
+		expect(r.domain).toEqual({ conditions: ['b < 13'], inputs: 13 });
+		expect(r.proof.status).toBe('skipped');
+		expect(r.notes.join(' ')).toContain('domain: b < 13 (13 of 32 basis inputs)');
+		// without the domain, inputs b ≥ 13 fail: the construction assumes b < N
+		expect(checkCircuit(c, ['b = b + 9 mod 13'], { proof: false }).failed).toBeGreaterThan(0);
+	});
+	it('a condition that is not a comparison is refused with its column', () => {
+		expect(() => parseCondition('b + 1', [{ name: 'b', size: 3 }])).toThrow(/column 1: expected a comparison/);
+		expect(() => parseCondition('q < 3', [{ name: 'b', size: 3 }])).toThrow(/unknown register "q"/);
+	});
+	it('the exponentiation states expectations that a correct circuit meets at every step', () => {
+		const d = doc(
+			[
+				{ name: 'e', size: 3 },
+				{ name: 'y', size: 4 },
+				{ name: 'w', size: 5 },
+				{ name: 'anc', size: 1, role: 'ancilla' }
+			],
+			[{ id: 'x', type: 'mod-exp', exponent: 'e', y: 'y', work: 'w', value: '7', modulus: '15', ancilla: { register: 'anc', index: 0 } }]
+		);
+		const c = lowerCircuit(d);
+		for (const e of [0, 3, 5]) {
+			const run = new Run(c, { values: { e, y: 1 } });
+			expect(run.firstDivergenceStep()).toBeNull();
+			expect(run.frameAt(c.gateCount).registerValues.y).toBe(powMod(7n, BigInt(e), 15n));
+		}
 	});
 });

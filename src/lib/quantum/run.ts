@@ -26,7 +26,7 @@ import {
 } from './amplitudes.js';
 import { addAngles, divergence, dyadic, floatTurns, formatRadians, formatTurns, isZeroSigned, ZERO_ANGLE, type Angle, type SignedAngle } from './angle.js';
 import { gateAt, type GateView, type LoweredCircuit } from './circuit.js';
-import { computeExpectations, ExpectKind, type ExpectationEvents } from './expect.js';
+import { computeExpectations, ExpectKind, noteKey, type ExpectationEvents } from './expect.js';
 import { computeIntentExpectations, mergeExpectations, type FourierSection, type RegisterIntent } from './intent.js';
 import {
 	applyLedgerGate,
@@ -78,8 +78,8 @@ export type QubitState =
 
 /** What one qubit is expected to hold (from block effects); Fourier: (num mod 2^level)/2^level turn. */
 export type ExpectedState =
-	| { kind: 'classical'; bit: 0 | 1 }
-	| { kind: 'fourier'; level: number; value: bigint; angle: Angle };
+	| { kind: 'classical'; bit: 0 | 1; note?: string }
+	| { kind: 'fourier'; level: number; value: bigint; angle: Angle; note?: string };
 
 /** One qubit in a frame (flat index, register and bit index with 0 = LSB). */
 export interface QubitFrame {
@@ -421,9 +421,11 @@ export class Run {
 
 	private expectedOf(e: number): ExpectedState {
 		const ev = this.expectations;
-		if (ev.kind[e] === ExpectKind.classical) return { kind: 'classical', bit: ev.level[e] ? 1 : 0 };
+		const note = ev.notes?.get(noteKey(ev.step[e], ev.qubit[e]));
+		const withNote = note ? { note } : {};
+		if (ev.kind[e] === ExpectKind.classical) return { kind: 'classical', bit: ev.level[e] ? 1 : 0, ...withNote };
 		const level = ev.level[e];
-		return { kind: 'fourier', level, value: ev.num[e], angle: dyadic(ev.num[e], level) };
+		return { kind: 'fourier', level, value: ev.num[e], angle: dyadic(ev.num[e], level), ...withNote };
 	}
 
 	private ledgerQubit(s: LedgerState, q: number): QubitState {
@@ -710,7 +712,8 @@ export class Run {
 }
 
 function describeExpected(e: ExpectedState): string {
-	return e.kind === 'classical' ? `|${e.bit}⟩` : `Fourier phase ${formatTurns(e.angle)} (level ${e.level}, value ${e.value})`;
+	const note = e.note ? `; ${e.note}` : '';
+	return e.kind === 'classical' ? `|${e.bit}⟩${note}` : `Fourier phase ${formatTurns(e.angle)} (level ${e.level}, value ${e.value}${note})`;
 }
 function describeState(s: QubitState): string {
 	if (s.kind === 'classical') return `|${s.bit}⟩`;

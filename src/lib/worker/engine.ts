@@ -289,22 +289,23 @@ export class EngineSession {
 function toDial(q: QubitFrame): DialQubit {
 	const base = { qubit: q.qubit, register: q.register, index: q.index };
 	const ex = q.expected;
+	const note = ex?.note && q.fresh ? { expectedNote: ex.note } : {};
 	const expected = ex && ex.kind === 'fourier' && q.fresh ? { expected: toTurns(ex.angle), expectedText: fracText(ex.angle), level: ex.level } : {};
 	const div = q.divergence && q.fresh ? { divergence: toTurnsSigned(q.divergence), divergenceText: fracText(q.divergence) } : {};
 	const s = q.state;
 	if (s.kind === 'classical') {
 		const wrongBit = q.fresh && ex?.kind === 'classical' && ex.bit !== s.bit;
-		return { ...base, kind: 'classical', bit: s.bit, ...(wrongBit ? { divergence: 0.5, divergenceText: `expected |${ex.bit}⟩` } : {}) };
+		return { ...base, kind: 'classical', bit: s.bit, ...note, ...(wrongBit ? { divergence: 0.5, divergenceText: `expected |${ex.bit}⟩${ex.note ? ` (${ex.note})` : ''}` } : {}) };
 	}
 	if (s.kind === 'fourier') {
 		const level = s.angle.exact ? Math.max(1, s.angle.exp) : undefined;
-		return { ...base, kind: 'fourier', level, angle: toTurns(s.angle), angleText: fracText(s.angle), coherence: 1, ...expected, ...div };
+		return { ...base, kind: 'fourier', level, angle: toTurns(s.angle), angleText: fracText(s.angle), coherence: 1, ...expected, ...note, ...div };
 	}
 	const [x, y] = s.bloch;
 	const len = Math.hypot(x, y);
 	// ⟨X⟩ = cos φ·len, ⟨Y⟩ = sin φ·len for a|0⟩ + b e^{iφ}|1⟩, so φ = atan2(y, x).
 	const turns = len > 1e-12 ? (((Math.atan2(y, x) / (2 * Math.PI)) % 1) + 1) % 1 : 0;
-	return { ...base, kind: 'mixed', angle: turns, angleText: turns.toFixed(5), coherence: len, ...expected, ...div };
+	return { ...base, kind: 'mixed', angle: turns, angleText: turns.toFixed(5), coherence: len, ...expected, ...note, ...div };
 }
 
 export function toFrameView(f: TraceFrame, position: PositionView): FrameView {

@@ -14,6 +14,10 @@ export type PartKind =
 	| 'add-shifted'
 	| 'add-controlled-shifted'
 	| 'multiply'
+	| 'mod-add'
+	| 'mod-mul'
+	| 'mod-mul-inplace'
+	| 'mod-exp'
 	| 'ccp-native'
 	| 'ccp-ancilla'
 	| 'ccp-no-ancilla'
@@ -26,7 +30,7 @@ export interface Part {
 	kind: PartKind;
 	title: string;
 	hint: string;
-	group: 'transform' | 'arithmetic' | 'phase' | 'gate' | 'team';
+	group: 'transform' | 'arithmetic' | 'modular' | 'phase' | 'gate' | 'team';
 }
 
 const GATE_HINTS: Record<GateName, string> = {
@@ -64,6 +68,10 @@ export const LIBRARY_PARTS: Part[] = [
 	{ id: 'shelf-add-s', kind: 'add-shifted', title: 'Shifted add', hint: 'target += 2^t·addend', group: 'arithmetic' },
 	{ id: 'shelf-add-cs', kind: 'add-controlled-shifted', title: 'Controlled shifted add', hint: 'if c: target += 2^t·addend', group: 'arithmetic' },
 	{ id: 'shelf-mul', kind: 'multiply', title: 'Multiplier', hint: 'product += a·b', group: 'arithmetic' },
+	{ id: 'shelf-mod-add', kind: 'mod-add', title: 'Modular add', hint: 'b ← (b + a) mod N, Fourier register of n+1 qubits, 0–2 controls, one ancilla', group: 'modular' },
+	{ id: 'shelf-mod-mul', kind: 'mod-mul', title: 'Modular multiply-add', hint: 'if c: b ← (b + a·x) mod N, b of n+1 qubits', group: 'modular' },
+	{ id: 'shelf-mod-mul-ip', kind: 'mod-mul-inplace', title: 'Modular multiply in place', hint: 'if c: x ← a·x mod N, with a work register and a⁻¹ mod N', group: 'modular' },
+	{ id: 'shelf-mod-exp', kind: 'mod-exp', title: 'Modular power', hint: 'y ← a^e·y mod N, one in-place multiplier per exponent bit', group: 'modular' },
 	{ id: 'shelf-ccp-n', kind: 'ccp-native', title: 'CC-phase · native', hint: 'one doubly controlled phase', group: 'phase' },
 	{ id: 'shelf-ccp-a', kind: 'ccp-ancilla', title: 'CC-phase · ancilla', hint: 'Toffoli, cp, Toffoli', group: 'phase' },
 	{ id: 'shelf-ccp-h', kind: 'ccp-no-ancilla', title: 'CC-phase · half angles', hint: 'cp(θ/2) and two CNOTs', group: 'phase' },
@@ -102,6 +110,11 @@ export function itemFromPart(kind: PartKind, doc: CircuitDocument): BodyItem {
 			return { id, type: 'add', addend: inp, target: out, shift: 1, control: firstQubit(other) };
 		case 'multiply':
 			return { id, type: 'multiply', a: inp, b: other, product: out };
+		case 'mod-add':
+		case 'mod-mul':
+		case 'mod-mul-inplace':
+		case 'mod-exp':
+			return modularFromPart(kind, id, doc);
 		case 'ccp-native':
 		case 'ccp-ancilla':
 		case 'ccp-no-ancilla':
@@ -121,6 +134,35 @@ export function itemFromPart(kind: PartKind, doc: CircuitDocument): BodyItem {
 		default:
 			if (kind.startsWith('call-')) return { id, type: 'call', block: kind.slice(5), args: {} };
 			return gateFromName(kind.slice(5) as GateName, id, inp, other, out);
+	}
+}
+
+/**
+ * A modular part with numbers that fit the document: the Fourier register is the largest
+ * output/work register (n+1 qubits), N the largest odd number below 2^n, a = 2 (or 1).
+ */
+function modularFromPart(kind: 'mod-add' | 'mod-mul' | 'mod-mul-inplace' | 'mod-exp', id: string, doc: CircuitDocument): BodyItem {
+	const regs = doc.registers;
+	const anc = regs.find((r) => r.role === 'ancilla') ?? regs[regs.length - 1];
+	const ancilla = { register: anc.name, index: 0 };
+	const data = regs.filter((r) => r !== anc);
+	const fourier = [...data].sort((x, y) => y.size - x.size || (x.role === 'output' || x.role === 'work' ? -1 : 1))[0] ?? regs[0];
+	const n = Math.max(1, fourier.size - 1);
+	const N = Math.max(2, 2 ** n - 1);
+	const a = N > 2 ? 2 : 1;
+	const rest = data.filter((r) => r !== fourier);
+	const x = rest.find((r) => r.size === n) ?? rest[0] ?? fourier;
+	const other = rest.find((r) => r !== x) ?? x;
+	const numbers = { value: String(a), modulus: String(N), ancilla };
+	switch (kind) {
+		case 'mod-add':
+			return { id, type: 'mod-add', target: fourier.name, ...numbers };
+		case 'mod-mul':
+			return { id, type: 'mod-mul', x: x.name, target: fourier.name, ...numbers };
+		case 'mod-mul-inplace':
+			return { id, type: 'mod-mul-inplace', x: x.name, work: fourier.name, ...numbers };
+		case 'mod-exp':
+			return { id, type: 'mod-exp', exponent: other.name, y: x.name, work: fourier.name, ...numbers };
 	}
 }
 
@@ -172,6 +214,20 @@ export function describeItem(item: BodyItem): string {
 			return `cc-phase(${item.angle}) ${qr(item.controls[0])}, ${qr(item.controls[1])} → ${qr(item.target)} · ${item.lowering ?? 'native'}`;
 		case 'call':
 			return `${item.block}(${Object.entries(item.args).map(([k, v]) => `${k}=${v}`).join(', ')})`;
+		case 'mod-add': {
+			const c = item.controls?.length ? `if ${item.controls.map(qr).join('·')}: ` : '';
+			return `${c}${item.target} ← (${item.target} + ${item.value}) mod ${item.modulus} · ancilla ${qr(item.ancilla)}`;
+		}
+		case 'mod-mul': {
+			const c = item.control ? `if ${qr(item.control)}: ` : '';
+			return `${c}${item.target} ← (${item.target} + ${item.value}·${item.x}) mod ${item.modulus}`;
+		}
+		case 'mod-mul-inplace': {
+			const c = item.control ? `if ${qr(item.control)}: ` : '';
+			return `${c}${item.x} ← ${item.value}·${item.x} mod ${item.modulus} · work ${item.work}`;
+		}
+		case 'mod-exp':
+			return `${item.y} ← ${item.value}^${item.exponent}·${item.y} mod ${item.modulus} · work ${item.work}`;
 	}
 }
 
@@ -194,5 +250,13 @@ export function itemTag(item: BodyItem): string {
 			return 'cc-phase';
 		case 'call':
 			return 'block';
+		case 'mod-add':
+			return '+a mod N';
+		case 'mod-mul':
+			return '+a·x mod N';
+		case 'mod-mul-inplace':
+			return '×a mod N';
+		case 'mod-exp':
+			return 'a^e mod N';
 	}
 }
