@@ -323,3 +323,53 @@ function isqrt(n: bigint): bigint | null {
 	while ((x + 1n) * (x + 1n) <= n) x++;
 	return x * x === n ? x : null;
 }
+
+// ----------------------------------------------------------------------------------------------
+// Printed angles: a decimal written by another tool for an exact angle (0.785398 for π/4).
+
+// π to 70 decimal places (from memory; checked in expr.test.ts against Math.PI and mathjs' bignumber pi).
+const PI_DIGITS = '31415926535897932384626433832795028841971693993751058209749445923078164';
+const SCALE_DIGITS = 68;
+const PI_SCALED = BigInt(PI_DIGITS.slice(0, SCALE_DIGITS + 1)); // π · 10^68
+
+/** A printed decimal read as an exact angle: the value and how far the printed text was from it (radians). */
+export interface PrintedAngle {
+	value: Num;
+	differenceRadians: number;
+}
+
+/**
+ * Read a decimal literal (radians, optionally signed) as the exact angle k/2^m turn when it lies
+ * within half a unit of its last printed digit of it, plus the rounding of a double
+ * (|v|·2^−52, for full-precision floats); the smallest such m is taken. m is bounded so that the
+ * grid 1/2^m turn stays at least 1000 times coarser than that tolerance (and m ≤ 64), so a
+ * decimal is never "close" to a grid merely because the grid is fine. Null when none fits.
+ */
+export function readPrintedAngle(text: string, negative: boolean): PrintedAngle | null {
+	const m = /^(\d*)(?:\.(\d*))?(?:[eE]([+-]?\d+))?$/.exec(text);
+	if (!m || (m[1] === '' && (m[2] ?? '') === '')) return null;
+	const frac = m[2] ?? '';
+	const digits = BigInt((m[1] || '0') + frac);
+	if (digits === 0n) return null;
+	const d = frac.length - (m[3] ? parseInt(m[3], 10) : 0); // value = digits · 10^−d
+	if (d > SCALE_DIGITS - 4 || d < -6) return null;
+	const v = Number(digits) * 10 ** -d;
+	// A decimal of at most 17 significant digits may be a printed double: allow the double's own rounding.
+	const isDouble = digits.toString().length <= 17;
+	const tol = 0.5 * 10 ** -d + (isDouble ? Math.abs(v) * 2 ** -52 : 0);
+	const maxM = Math.min(64, Math.floor(Math.log2((2 * Math.PI) / (1000 * tol))));
+	const vS = digits * 10n ** BigInt(SCALE_DIGITS - d); // v · 10^68
+	const tolS = 5n * 10n ** BigInt(SCALE_DIGITS - d - 1) + (isDouble ? vS >> 52n : 0n);
+	const twoPi = 2n * PI_SCALED;
+	for (let e = 0; e <= maxM; e++) {
+		const num = vS << BigInt(e);
+		const k = (num + twoPi / 2n) / twoPi; // round(v·2^e / 2π)
+		let diff = num - k * twoPi;
+		if (diff < 0n) diff = -diff;
+		if (diff <= tolS << BigInt(e)) {
+			const kk = negative ? -k : k;
+			return { value: exactNum(2n * kk, 1n << BigInt(e), 1), differenceRadians: Number(diff >> BigInt(e)) / 1e68 };
+		}
+	}
+	return null;
+}

@@ -10,7 +10,8 @@
 import { CIRCUIT_FORMAT, CIRCUIT_VERSION, type CircuitDocument, type GateItem, type Matrix2, type QubitRef, type SourcePosition } from '../circuit.js';
 import type { Angle } from '../angle.js';
 import { lexQasm, QasmError, type Token } from './lexer.js';
-import { add, evaluateTokens, exactNum, mul, numToAngle, numToFloat, numToInteger, type Num, type NumScope } from './expr.js';
+import { add, evaluateTokens, exactNum, mul, numToAngle, numToFloat, numToInteger, readPrintedAngle, type Num, type NumScope } from './expr.js';
+import { recogniseDecompositions, type PeepholeReport } from './peephole.js';
 import { matDagger, matMul, matSqrt, MATRICES, rzMatrix, ryMatrix, u3Matrix, zyz } from './matrix.js';
 
 /** A non-fatal note about the file (skipped statement, lenient reading), with its position. */
@@ -45,6 +46,24 @@ export interface QasmImportOptions {
 	limits?: Partial<QasmLimits>;
 	/** Version assumed when the file has no OPENQASM header (default 3, with a warning). */
 	defaultVersion?: 2 | 3;
+	/**
+	 * Read a gate parameter written as a plain decimal (`0.785398`, `-1.5707963267948966`) as the
+	 * exact angle k/2^m turn it prints, when it is within half a unit of its last digit of one
+	 * (see `readPrintedAngle`). Default true.
+	 */
+	exactDecimals?: boolean;
+	/** Recognise decomposed controlled phases, doubly controlled phases and Toffolis (`peephole.ts`). Default true. */
+	recogniseDecompositions?: boolean;
+}
+
+/** How printed decimals were read (see {@link QasmImportOptions.exactDecimals}). */
+export interface PrintedAngleStats {
+	/** Decimal parameters read as exact angles. */
+	exact: number;
+	/** Largest |printed − exact| among them, radians. */
+	largestDifferenceRadians: number;
+	/** Decimal parameters that fit no k/2^m turn and stay inexact. */
+	inexact: number;
 }
 
 /** Result of {@link importQasm}: the document, the version read, warnings, and per body item its origin. */
@@ -53,6 +72,12 @@ export interface QasmImport {
 	version: 2 | 3;
 	warnings: QasmWarning[];
 	origins: GateOrigin[];
+	/** Printed decimals read as exact angles. */
+	decimals: PrintedAngleStats;
+	/** What the recognition of decomposed gates changed (absent when it was turned off). */
+	decompositions?: PeepholeReport;
+	/** Sentences for the user about how the file was read (decimals, decompositions). */
+	notes: string[];
 }
 
 // ----------------------------------------------------------------------------------------------
@@ -221,6 +246,9 @@ class Reader {
 	readonly items: GateItem[] = [];
 	readonly origins: GateOrigin[] = [];
 	private flatToRef: QubitRef[] = [];
+	exactDecimals = true;
+	readonly decimals: PrintedAngleStats = { exact: 0, largestDifferenceRadians: 0, inexact: 0 };
+	private readonly decimalSeen = new Set<number>();
 
 	constructor(
 		private readonly tokens: Token[],
@@ -290,6 +318,24 @@ class Reader {
 	}
 	private evaluate(tokens: Token[], scope: NumScope): Num {
 		return evaluateTokens(tokens, scope, this.file, (t, m) => this.warn(t, m), this.version);
+	}
+	/** A gate parameter (radians): a lone printed decimal may be read as the exact angle it prints. */
+	private angleParam(tokens: Token[], scope: NumScope): Num {
+		const signed = tokens.length === 2 && tokens[0].kind === 'punct' && (tokens[0].text === '-' || tokens[0].text === '+');
+		const lit = tokens.length === 1 ? tokens[0] : signed ? tokens[1] : null;
+		if (lit && lit.kind === 'float') {
+			const fresh = !this.decimalSeen.has(lit.start);
+			if (fresh) this.decimalSeen.add(lit.start);
+			const p = this.exactDecimals ? readPrintedAngle(lit.text, signed && tokens[0].text === '-') : null;
+			if (fresh) {
+				if (p) {
+					this.decimals.exact++;
+					this.decimals.largestDifferenceRadians = Math.max(this.decimals.largestDifferenceRadians, p.differenceRadians);
+				} else this.decimals.inexact++;
+			}
+			if (p) return p.value;
+		}
+		return this.evaluate(tokens, scope);
 	}
 	private intExpr(tokens: Token[], what: string, min: number, max: number): number {
 		const v = numToInteger(this.evaluate(tokens, this.consts));
@@ -699,7 +745,7 @@ class Reader {
 				lists.push(all);
 			}
 		}
-		const params = call.params.map((ex) => this.evaluate(ex, this.consts));
+		const params = call.params.map((ex) => this.angleParam(ex, this.consts));
 		for (let k = 0; k < width; k++) {
 			const qs = lists.map((l) => (l.length === 1 ? l[0] : l[k]));
 			const seen = new Set<number>();
@@ -762,7 +808,7 @@ class Reader {
 		const out: Op[] = [];
 		const inner: GateOrigin = { ...origin, definitions: [...origin.definitions, { gate: def.name, line: def.tok.line, column: def.tok.column }] };
 		for (const c of def.body) {
-			const ps = c.params.map((ex) => evaluateTokens(ex, scope, this.file, undefined, this.version));
+			const ps = c.params.map((ex) => this.angleParam(ex, scope));
 			const bodyOrigin: GateOrigin = { ...inner, definitions: [...inner.definitions.slice(0, -1), { gate: def.name, line: c.nameTok.line, column: c.nameTok.column }] };
 			const ops = this.expand(c, ps, c.qargs.map((q) => qmap.get(q.name)!), bodyOrigin, depth + 1, scope);
 			for (const o of ops) out.push(o);
@@ -912,6 +958,7 @@ export function importQasm(text: string, options: QasmImportOptions = {}): QasmI
 		throw e;
 	}
 	const r = new Reader(tokens, file, limits, options.defaultVersion ?? 3);
+	r.exactDecimals = options.exactDecimals ?? true;
 	try {
 		r.run();
 	} catch (e) {
@@ -920,5 +967,26 @@ export function importQasm(text: string, options: QasmImportOptions = {}): QasmI
 		throw e;
 	}
 	const title = options.title ?? file.replace(/^.*[\\/]/, '').replace(/\.(qasm3?|inc)$/i, '');
-	return { document: r.documentOf(title), version: r.version, warnings: r.warnings, origins: r.origins };
+	let document = r.documentOf(title);
+	let origins = r.origins;
+	const notes: string[] = [];
+	const d = r.decimals;
+	if (d.exact) notes.push(`${d.exact} printed angle${d.exact === 1 ? '' : 's'} read as exact k/2^m turn (largest difference ${d.largestDifferenceRadians.toExponential(2)} rad)`);
+	if (d.inexact) notes.push(`${d.inexact} printed angle${d.inexact === 1 ? '' : 's'} fit no k/2^m turn${r.exactDecimals ? '' : ' (exact reading of decimals is off)'} and stay inexact`);
+	let decompositions: PeepholeReport | undefined;
+	if (options.recogniseDecompositions ?? true) {
+		const p = recogniseDecompositions(document);
+		decompositions = p.report;
+		if (p.report.regions || p.report.toffolis || p.report.cancelledPairs) {
+			document = { ...document, body: p.body };
+			origins = p.from.map((i) => r.origins[i]);
+			const parts: string[] = [];
+			if (p.report.regions) parts.push(`${p.report.regions} CNOT region${p.report.regions === 1 ? '' : 's'} read as diagonal phase gates`);
+			if (p.report.toffolis) parts.push(`${p.report.toffolis} Toffoli network${p.report.toffolis === 1 ? '' : 's'} read as ccx`);
+			if (p.report.cancelledPairs) parts.push(`${p.report.cancelledPairs} pair${p.report.cancelledPairs === 1 ? '' : 's'} of opposite phases cancelled`);
+			notes.push(`decomposed gates recognised: ${parts.join(', ')}${p.report.rzAsPhase ? ` (rz read as p: equal up to a global phase)` : ''}`);
+		}
+		if (p.report.stoppedAtLimit) notes.push('recognition of decomposed gates stopped at its work limit; the rest of the file is read as written');
+	}
+	return { document, version: r.version, warnings: r.warnings, origins, decimals: d, decompositions, notes };
 }

@@ -1,0 +1,447 @@
+/**
+ * Recognise decomposed gates in an imported gate list, so the engines and the prover see the
+ * gate the engineer meant. Three exact rules, each applied only where the result is the same
+ * unitary up to a global constant phase:
+ *
+ * 1. CNOT regions (a phase polynomial): a run of CNOTs and diagonal gates (p, cp, mcp, rz) whose
+ *    CNOTs compose to the identity is diagonal. Each diagonal gate acting on qubits that hold
+ *    parities f_q of the run's start values applies θ·∏f_q, and with
+ *    f = x₁⊕…⊕x_r = Σ_{∅≠T} (−2)^{|T|−1} ∏_T x it becomes a sum of monomial phases: one p, cp
+ *    or mcp per monomial, at the same place, pointing at the same source line; the CNOTs go.
+ *    Covers the controlled phase written with p/u1 or rz and two CNOTs (either orientation) and
+ *    the doubly controlled phase written with controlled phases and CNOTs (no ancilla).
+ *    rz(θ) = e^{−iθ/2}·p(θ): an uncontrolled rz read as p changes only the global phase.
+ * 2. The Toffoli as the 6-CNOT, 7-T network of Nielsen & Chuang Fig. 4.9 (the body of `ccx` in
+ *    qelib1.inc), matched gate for gate on its three qubits (other qubits' gates may interleave).
+ * 3. Cancellation: two diagonal gates on the same qubit set whose exact angles sum to 0 turn, one
+ *    of them made by rule 1, with only gates between them that commute with both (diagonal
+ *    gates, CNOTs and Toffolis whose target is outside the set), are both removed. Gates the file
+ *    wrote outside a recognised decomposition are never removed.
+ *
+ * Only top-level gate items of a document with literal indices take part; any other item is a
+ * barrier. Qubit order: {register, index}, index 0 = LSB. Angles: turns (document strings).
+ * Work: bounded by `maxWork` gate visits (a region is tried from each CNOT, at most
+ * `maxRegion` gates long).
+ */
+import { addAngles, dyadic, parseAngle, scaleAngle, type Angle } from '../angle.js';
+import type { BodyItem, CircuitDocument, GateItem, QubitRef } from '../circuit.js';
+
+/** What {@link recogniseDecompositions} changed. */
+export interface PeepholeReport {
+	/** CNOT regions rewritten as diagonal gates. */
+	regions: number;
+	/** Toffoli networks replaced by ccx. */
+	toffolis: number;
+	/** Pairs of diagonal gates that cancelled exactly. */
+	cancelledPairs: number;
+	/** rz gates read as p (each changes only the global phase). */
+	rzAsPhase: number;
+	/** True when the work bound stopped the search early (the rest is left as written). */
+	stoppedAtLimit: boolean;
+}
+
+/** Options of {@link recogniseDecompositions}. */
+export interface PeepholeOptions {
+	/** Longest CNOT region tried (gates). Default 512. */
+	maxRegion?: number;
+	/** Total gate visits before the search stops. Default 40 · gates + 100 000. */
+	maxWork?: number;
+}
+
+/** Result: the new body, and per new item the index of the old item it came from. */
+export interface PeepholeResult {
+	body: BodyItem[];
+	from: number[];
+	report: PeepholeReport;
+}
+
+type Kind = 'diag' | 'cx' | 'h' | 'other' | 'barrier';
+interface G {
+	item: BodyItem;
+	kind: Kind;
+	qs: number[];
+	/** Diagonal gates: the angle in turns (rz read as p). */
+	angle?: Angle;
+	/** Made by a region rewrite (only pairs with at least one such gate are cancelled). */
+	made?: boolean;
+}
+
+const EIGHTH = dyadic(1n, 3);
+const MINUS_EIGHTH = dyadic(-1n, 3);
+
+/** Document angle string → angle; fast path for the importer's own `"k/2^m turn"` form. */
+function readAngle(text: string): Angle {
+	const m = /^(\d+)\/2\^(\d+) turn$/.exec(text);
+	if (m) return dyadic(BigInt(m[1]), Number(m[2]));
+	if (text === '0 turn') return dyadic(0n, 0);
+	return parseAngle(text);
+}
+
+/** Document angle string for an angle in turns (same form as the importer writes). */
+function angleString(a: Angle): string {
+	if (!a.exact) return `~${a.turns}`;
+	return a.num === 0n ? '0 turn' : `${a.num}/2^${a.exp} turn`;
+}
+
+const isZero = (a: Angle) => a.exact && a.num === 0n;
+
+/**
+ * Rewrite decomposed controlled phases, doubly controlled phases and Toffolis in `doc.body` to
+ * their native gates (exact up to a global phase). Pure; the document is not changed.
+ */
+export function recogniseDecompositions(doc: CircuitDocument, options: PeepholeOptions = {}): PeepholeResult {
+	const maxRegion = options.maxRegion ?? 512;
+	const report: PeepholeReport = { regions: 0, toffolis: 0, cancelledPairs: 0, rzAsPhase: 0, stoppedAtLimit: false };
+	// Qubit ids are flat positions (register offset + index), so sorting them sorts by register, then index.
+	const offsets = new Map<string, number>();
+	const sizes = new Map(doc.registers.map((r) => [r.name, r.size]));
+	let total = 0;
+	for (const r of doc.registers) {
+		offsets.set(r.name, total);
+		total += r.size;
+	}
+	const refs: QubitRef[] = [];
+	for (const r of doc.registers) for (let i = 0; i < r.size; i++) refs.push({ register: r.name, index: i });
+	const qid = (r: QubitRef): number => (offsets.get(r.register) ?? 0) + (r.index as number);
+	const known = (r: QubitRef) => {
+		const size = sizes.get(r.register);
+		return size !== undefined && typeof r.index === 'number' && r.index >= 0 && r.index < size;
+	};
+	const gs: G[] = doc.body.map((item) => classify(item, qid, known));
+	let work = 0;
+	const maxWork = options.maxWork ?? 40 * gs.length + 100_000;
+
+	// 2. Toffolis first: a CNOT region would otherwise take their middle apart.
+	const removed = new Uint8Array(gs.length);
+	for (let i = 0; i < gs.length && !report.stoppedAtLimit; i++) {
+		if (gs[i].kind !== 'h' || removed[i]) continue;
+		const m = matchToffoli(gs, removed, i);
+		work += m ? m.visited : 8;
+		if (work > maxWork) report.stoppedAtLimit = true;
+		if (!m) continue;
+		const [a, b, c] = m.roles;
+		const first = gs[m.matched[0]].item;
+		const lines = m.matched.map((k) => gs[k].item.source?.line).filter((x): x is number => x !== undefined);
+		const ccx: GateItem = {
+			id: `${first.id}t`,
+			type: 'gate',
+			gate: 'ccx',
+			qubits: [refs[a], refs[b], refs[c]].map((r) => ({ ...r })),
+			...(first.source ? { source: first.source } : {}),
+			label: lines.length ? `Toffoli written out (lines ${Math.min(...lines)}–${Math.max(...lines)})` : 'Toffoli written out'
+		};
+		for (const k of m.matched.slice(1)) removed[k] = 1;
+		gs[m.matched[0]] = { item: ccx, kind: 'other', qs: [a, b, c] };
+		report.toffolis++;
+	}
+
+	// 1. CNOT regions.
+	const out: { g: G; from: number }[] = [];
+	for (let i = 0; i < gs.length; ) {
+		if (removed[i]) {
+			i++;
+			continue;
+		}
+		if (gs[i].kind === 'cx' && !report.stoppedAtLimit) {
+			const r = tryRegion(gs, removed, i, maxRegion, refs);
+			work += r.visited;
+			if (work > maxWork) report.stoppedAtLimit = true;
+			if (r.ok) {
+				report.regions++;
+				report.rzAsPhase += r.rz;
+				for (let k = i; k <= r.end; k++) {
+					if (removed[k]) continue;
+					const rep = r.rewrite.get(k);
+					if (rep === undefined) out.push({ g: gs[k], from: k });
+					else for (const g of rep) out.push({ g, from: k });
+				}
+				i = r.end + 1;
+				continue;
+			}
+		}
+		out.push({ g: gs[i], from: i });
+		i++;
+	}
+
+	// 3. Cancel exact pairs.
+	const gone = new Uint8Array(out.length);
+	for (let i = 0; i < out.length; i++) {
+		const gi = out[i].g;
+		if (gone[i] || gi.kind !== 'diag' || !gi.angle!.exact) continue;
+		const set = gi.qs;
+		for (let j = i + 1, seen = 0; j < out.length && seen < 256; j++) {
+			if (gone[j]) continue;
+			const gj = out[j].g;
+			seen++;
+			if (gj.kind === 'barrier') break;
+			if (!gj.qs.some((q) => set.includes(q))) continue;
+			if (gj.kind === 'diag') {
+				if ((gi.made || gj.made) && gj.angle!.exact && sameSet(gj.qs, set) && isZero(addAngles(gi.angle!, gj.angle!))) {
+					gone[i] = gone[j] = 1;
+					report.cancelledPairs++;
+					for (const x of [gi, gj]) if ((x.item as GateItem).gate === 'rz') report.rzAsPhase++;
+					break;
+				}
+				continue;
+			}
+			// A CNOT or Toffoli whose target is outside the set leaves the set's values alone.
+			const gate = (gj.item as GateItem).gate;
+			if ((gate === 'cx' || gate === 'ccx') && !set.includes(gj.qs[gj.qs.length - 1])) continue;
+			break;
+		}
+	}
+	const body: BodyItem[] = [];
+	const from: number[] = [];
+	out.forEach((x, k) => {
+		if (gone[k]) return;
+		body.push(x.g.item);
+		from.push(x.from);
+	});
+	return { body, from, report };
+}
+
+function sameSet(a: number[], b: number[]): boolean {
+	if (a.length !== b.length) return false;
+	for (const x of a) if (!b.includes(x)) return false;
+	return true;
+}
+
+function classify(item: BodyItem, qid: (r: QubitRef) => number, known: (r: QubitRef) => boolean): G {
+	if (item.type !== 'gate' || item.qubits.some((q) => typeof q.index !== 'number' || !known(q))) return { item, kind: 'barrier', qs: [] };
+	const qs = item.qubits.map(qid);
+	switch (item.gate) {
+		case 'p':
+		case 'cp':
+		case 'mcp':
+		case 'rz':
+			return { item, kind: 'diag', qs, angle: readAngle(item.angle ?? '0 turn') };
+		case 'cx':
+			return { item, kind: 'cx', qs };
+		case 'h':
+			return { item, kind: 'h', qs };
+		default:
+			return { item, kind: 'other', qs };
+	}
+}
+
+// ----------------------------------------------------------------------------------------------
+// Rule 1: CNOT regions
+
+interface RegionResult {
+	ok: boolean;
+	end: number;
+	visited: number;
+	rz: number;
+	rewrite: Map<number, G[]>;
+}
+
+const MAX_PARITY = 8;
+const MAX_TERMS = 256;
+
+/** Symmetric difference of two sorted arrays. */
+function xorSorted(a: number[], b: number[]): number[] {
+	const out: number[] = [];
+	let i = 0;
+	let j = 0;
+	while (i < a.length || j < b.length) {
+		if (j >= b.length || (i < a.length && a[i] < b[j])) out.push(a[i++]);
+		else if (i >= a.length || b[j] < a[i]) out.push(b[j++]);
+		else {
+			i++;
+			j++;
+		}
+	}
+	return out;
+}
+
+function tryRegion(gs: G[], removed: Uint8Array, start: number, maxRegion: number, refs: QubitRef[]): RegionResult {
+	// Parities of the qubits changed so far (absent = the qubit holds its own start value).
+	const parity = new Map<number, number[]>();
+	const rewrite = new Map<number, G[]>();
+	let visited = 0;
+	let rz = 0;
+	const fail = (): RegionResult => ({ ok: false, end: start, visited, rz: 0, rewrite });
+	const inDirty = (q: number) => {
+		if (parity.has(q)) return true;
+		for (const p of parity.values()) if (p.includes(q)) return true;
+		return false;
+	};
+	for (let k = start; k < gs.length && k < start + maxRegion; k++) {
+		if (removed[k]) continue;
+		visited++;
+		const g = gs[k];
+		if (g.kind === 'cx') {
+			const [c, t] = g.qs;
+			const pc = parity.get(c) ?? [c];
+			const pt = parity.get(t) ?? [t];
+			const nt = xorSorted(pt, pc);
+			if (nt.length > MAX_PARITY) return fail();
+			if (nt.length === 1 && nt[0] === t) parity.delete(t);
+			else parity.set(t, nt);
+			rewrite.set(k, []);
+			if (parity.size === 0) return { ok: true, end: k, visited, rz, rewrite };
+			continue;
+		}
+		if (g.kind === 'diag') {
+			if (!g.qs.some((q) => parity.has(q))) continue;
+			const item = g.item as GateItem;
+			const terms = expandProduct(g.qs.map((q) => parity.get(q) ?? [q]));
+			if (terms === null) return fail();
+			const target = g.qs[g.qs.length - 1];
+			const made: G[] = [];
+			let n = 0;
+			for (const [mono, coef] of terms) {
+				const a = scaleAngle(g.angle!, coef);
+				if (isZero(a)) continue;
+				const qs = [...mono].sort((x, y) => (x === target ? 1 : y === target ? -1 : x - y));
+				const gate = qs.length === 1 ? 'p' : qs.length === 2 ? 'cp' : 'mcp';
+				const it: GateItem = {
+					id: `${item.id}r${++n}`,
+					type: 'gate',
+					gate,
+					qubits: qs.map((q) => ({ ...refs[q] })),
+					angle: angleString(a),
+					...(item.source ? { source: item.source } : {}),
+					label: `${gate} from a ${item.gate} between CNOTs`
+				};
+				made.push({ item: it, kind: 'diag', qs, angle: a, made: true });
+			}
+			if (item.gate === 'rz') rz++;
+			rewrite.set(k, made);
+			continue;
+		}
+		// Any other gate may stay inside the region only if it touches no changed qubit and no
+		// qubit a changed one depends on: then it acts on the same values with or without the CNOTs.
+		if (g.kind === 'barrier' || g.qs.some(inDirty)) return fail();
+	}
+	return fail();
+}
+
+/**
+ * θ·∏_q f_q with each f_q the XOR of the variables in `parities[q]`, as a sum over monomials:
+ * monomial (sorted variable list) → integer coefficient. Null when it has too many terms.
+ */
+function expandProduct(parities: number[][]): Map<number[], bigint> | null {
+	// Each parity expands to Σ_{∅≠T⊆vars} (−2)^{|T|−1}·∏T (for XOR of 0/1 values; exact).
+	let acc = new Map<string, { mono: number[]; c: bigint }>([['', { mono: [], c: 1n }]]);
+	for (const p of parities) {
+		const sub: { mono: number[]; c: bigint }[] = [];
+		const r = p.length;
+		if (r === 0) return new Map();
+		if ((1 << r) - 1 > MAX_TERMS) return null;
+		for (let mask = 1; mask < 1 << r; mask++) {
+			const mono: number[] = [];
+			for (let b = 0; b < r; b++) if (mask & (1 << b)) mono.push(p[b]);
+			sub.push({ mono, c: (-2n) ** BigInt(mono.length - 1) });
+		}
+		const next = new Map<string, { mono: number[]; c: bigint }>();
+		for (const x of acc.values())
+			for (const y of sub) {
+				const mono = [...new Set([...x.mono, ...y.mono])].sort((u, v) => u - v);
+				const key = mono.join(',');
+				const e = next.get(key);
+				if (e) e.c += x.c * y.c;
+				else next.set(key, { mono, c: x.c * y.c });
+			}
+		if (next.size > MAX_TERMS) return null;
+		acc = next;
+	}
+	const out = new Map<number[], bigint>();
+	for (const x of acc.values()) if (x.c !== 0n && x.mono.length) out.set(x.mono, x.c);
+	return out;
+}
+
+// ----------------------------------------------------------------------------------------------
+// Rule 2: the Toffoli network of Nielsen & Chuang Fig. 4.9 / qelib1.inc `ccx`
+
+type Role = 0 | 1 | 2; // a, b, c (controls a, b; target c)
+type Step = { kind: 'h' | 'cx' | 't' | 'tdg'; q: Role[] };
+/** Groups of steps that may come in any order among themselves (they commute). */
+const TOFFOLI: Step[][] = [
+	[{ kind: 'h', q: [2] }],
+	[{ kind: 'cx', q: [1, 2] }],
+	[{ kind: 'tdg', q: [2] }],
+	[{ kind: 'cx', q: [0, 2] }],
+	[{ kind: 't', q: [2] }],
+	[{ kind: 'cx', q: [1, 2] }],
+	[{ kind: 'tdg', q: [2] }],
+	[{ kind: 'cx', q: [0, 2] }],
+	[
+		{ kind: 't', q: [1] },
+		{ kind: 't', q: [2] }
+	],
+	[{ kind: 'h', q: [2] }],
+	[{ kind: 'cx', q: [0, 1] }],
+	[
+		{ kind: 't', q: [0] },
+		{ kind: 'tdg', q: [1] }
+	],
+	[{ kind: 'cx', q: [0, 1] }]
+];
+
+function stepMatches(g: G, s: Step, roles: (number | undefined)[]): (number | undefined)[] | null {
+	const item = g.item as GateItem;
+	if (s.kind === 'h' || s.kind === 'cx') {
+		if (g.kind !== s.kind) return null;
+	} else {
+		if (g.kind !== 'diag' || g.qs.length !== 1 || (item.gate !== 'p' && item.gate !== 'rz')) return null;
+		const want = s.kind === 't' ? EIGHTH : MINUS_EIGHTH;
+		if (!g.angle!.exact || g.angle!.num !== want.num || g.angle!.exp !== want.exp) return null;
+	}
+	const next = [...roles];
+	for (let k = 0; k < s.q.length; k++) {
+		const role = s.q[k];
+		const q = g.qs[k];
+		if (next[role] === undefined) {
+			if (next.includes(q)) return null;
+			next[role] = q;
+		} else if (next[role] !== q) return null;
+	}
+	return next;
+}
+
+function matchToffoli(gs: G[], removed: Uint8Array, start: number): { roles: [number, number, number]; matched: number[]; visited: number } | null {
+	let roles: (number | undefined)[] = [undefined, undefined, gs[start].qs[0]];
+	const matched: number[] = [start];
+	let k = start + 1;
+	let visited = 1;
+	for (let gi = 1; gi < TOFFOLI.length; gi++) {
+		const pending = [...TOFFOLI[gi]];
+		while (pending.length) {
+			// The next gate touching a bound qubit must be one of the group's steps.
+			let found = -1;
+			for (; k < gs.length && visited < 4096; k++) {
+				if (removed[k]) continue;
+				visited++;
+				const g = gs[k];
+				if (g.kind === 'barrier') return null;
+				if (g.qs.some((q) => roles.includes(q))) {
+					found = k;
+					break;
+				}
+			}
+			if (found < 0) return null;
+			let ok = false;
+			for (let s = 0; s < pending.length; s++) {
+				const r = stepMatches(gs[found], pending[s], roles);
+				if (r) {
+					roles = r;
+					pending.splice(s, 1);
+					ok = true;
+					break;
+				}
+			}
+			if (!ok) return null;
+			matched.push(found);
+			k = found + 1;
+		}
+	}
+	const bound = roles as [number, number, number];
+	// Gates between the first and last matched that were skipped must not touch the three qubits.
+	const set = new Set(matched);
+	for (let j = start; j <= matched[matched.length - 1]; j++) {
+		if (removed[j] || set.has(j)) continue;
+		if (gs[j].qs.some((q) => bound.includes(q))) return null;
+	}
+	return { roles: bound, matched, visited };
+}
