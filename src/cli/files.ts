@@ -1,5 +1,6 @@
 // What every command of the CLI shares: reading arguments and circuit files.
 import { importQasm } from '../lib/quantum/qasm/import.js';
+import { applyRegisterMap, parseRegisterMapEntry, RegisterMapError, type RegisterMapEntry } from '../lib/quantum/qasm/register-map.js';
 import { readCircuitDocument } from '../lib/quantum/schema.js';
 import type { CircuitDocument } from '../lib/quantum/circuit.js';
 
@@ -30,11 +31,49 @@ export function parseArgs(argv: string[], valued: ReadonlySet<string>): Args {
 	return { positional, flags };
 }
 
+/** The options every command that reads a circuit file accepts. */
+export const FILE_OPTIONS = ['--register', '--exact-decimals'] as const;
+
+/** How to read a circuit file: register maps (`--register x=q[0:3]`) and printed decimals (`--exact-decimals on|off`). */
+export interface ReadOptions {
+	registers?: string[];
+	exactDecimals?: boolean;
+}
+
+/** {@link ReadOptions} from parsed arguments; a bad value names its flag. */
+export function readOptionsFrom(args: Args): ReadOptions {
+	const d = args.flags.get('--exact-decimals')?.at(-1);
+	if (d !== undefined && d !== 'on' && d !== 'off') throw new CliError(`--exact-decimals must be on or off, got "${d}"`);
+	return { registers: args.flags.get('--register') ?? [], exactDecimals: d !== 'off' };
+}
+
 /**
  * Read a circuit file: `.json` is an Orrery document, anything else OpenQASM (version from
- * its header; `.qasm3` assumes 3 without one). Warnings and gate-definition lines come along.
+ * its header; `.qasm3` assumes 3 without one). Warnings, notes (how decimals and decomposed gates
+ * were read, registers left unmapped) and gate-definition lines come along.
  */
-export function loadCircuitFile(path: string, readFile: (p: string) => string): { doc: CircuitDocument; warnings: string[]; definitionLines?: Map<string, number[]> } {
+export function loadCircuitFile(
+	path: string,
+	readFile: (p: string) => string,
+	options: ReadOptions = {}
+): { doc: CircuitDocument; warnings: string[]; notes: string[]; definitionLines?: Map<string, number[]> } {
+	const entries: RegisterMapEntry[] = [];
+	(options.registers ?? []).forEach((t, k) => {
+		try {
+			entries.push(parseRegisterMapEntry(t, k));
+		} catch (e) {
+			if (e instanceof RegisterMapError) throw new CliError(`--register ${e.message}`);
+			throw e;
+		}
+	});
+	const mapped = (doc: CircuitDocument): { document: CircuitDocument; notes: string[] } => {
+		try {
+			return applyRegisterMap(doc, entries);
+		} catch (e) {
+			if (e instanceof RegisterMapError) throw new CliError(`--register ${e.entry >= 0 ? '' : `(${path}) `}${e.message}`);
+			throw e;
+		}
+	};
 	let text: string;
 	try {
 		text = readFile(path);
@@ -48,16 +87,20 @@ export function loadCircuitFile(path: string, readFile: (p: string) => string): 
 		} catch (e) {
 			throw new CliError(`${path}:1:1: not valid JSON (${(e as Error).message})`);
 		}
+		let doc: CircuitDocument;
 		try {
-			return { doc: readCircuitDocument(json), warnings: [] };
+			doc = readCircuitDocument(json);
 		} catch (e) {
 			throw new CliError(`${path}: ${(e as Error).message}`);
 		}
+		const m = mapped(doc);
+		return { doc: m.document, warnings: [], notes: m.notes };
 	}
-	const r = importQasm(text, { file: path, defaultVersion: path.toLowerCase().endsWith('.qasm3') ? 3 : 2 });
+	const r = importQasm(text, { file: path, defaultVersion: path.toLowerCase().endsWith('.qasm3') ? 3 : 2, exactDecimals: options.exactDecimals ?? true });
+	const m = mapped(r.document);
 	const definitionLines = new Map<string, number[]>();
 	r.document.body.forEach((item, i) => {
 		if (r.origins[i]?.definitions.length) definitionLines.set(item.id, r.origins[i].definitions.map((d) => d.line));
 	});
-	return { doc: r.document, warnings: r.warnings.map((w) => `${path}:${w.line}:${w.column}: warning: ${w.message}`), definitionLines };
+	return { doc: m.document, warnings: r.warnings.map((w) => `${path}:${w.line}:${w.column}: warning: ${w.message}`), notes: [...r.notes, ...m.notes], definitionLines };
 }

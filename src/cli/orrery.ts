@@ -7,7 +7,7 @@ import { readFileSync, writeFileSync } from 'node:fs';
 import { pathToFileURL } from 'node:url';
 import { exportQasm } from '../lib/quantum/qasm/export.js';
 import { runPush } from './push.js';
-import { CliError as UsageError, loadCircuitFile, parseArgs as parseCliArgs, type Args } from './files.js';
+import { CliError as UsageError, FILE_OPTIONS, loadCircuitFile, parseArgs as parseCliArgs, readOptionsFrom, type Args, type ReadOptions } from './files.js';
 import { circuitUnitary, restrictToCleanAncillas, unitaryDistance } from '../lib/quantum/check/equivalence.js';
 import { QasmError } from '../lib/quantum/qasm/lexer.js';
 import { lowerCircuit } from '../lib/quantum/lower.js';
@@ -42,13 +42,19 @@ const USAGE = `usage: orrery <command> [options]
                             compare two circuits as unitaries (≤ 10 qubits), up to global phase
   push FILE --spec "…" --server URL --token T [--input a=5,b=3] [--json]
                             check, upload the trace, and open a report when it fails
+Reading a file (every command):
+  --register NAME=QUBITS    name a register over the file's qubits, listed from its least-significant
+                            bit (OpenQASM 3 index syntax): x=q[0:15], x=q[15:-1:0] (MSB first in the
+                            file), x=q[{3,1,2,0}], x=x; repeatable; unmapped qubits stay in REG_rest
+  --exact-decimals on|off   read printed decimals (0.785398) as the exact k/2^m turn they print (default on)
 Registers read little-endian: name[0] is the least-significant bit.`;
 
-const VALUED = new Set(['--spec', '--inputs', '--input', '--engine', '--step', '--seed', '--ancilla']);
+const VALUED = new Set(['--spec', '--inputs', '--input', '--engine', '--step', '--seed', '--ancilla', ...FILE_OPTIONS]);
 const parseArgs = (argv: string[]) => parseCliArgs(argv, VALUED);
 
 /** Read a circuit file by extension / header. */
-const loadDocument = (path: string, io: Io) => loadCircuitFile(path, (p) => io.readFile(p));
+let readOptions: ReadOptions = {};
+const loadDocument = (path: string, io: Io) => loadCircuitFile(path, (p) => io.readFile(p), readOptions);
 
 function lower(doc: CircuitDocument, path: string): LoweredCircuit {
 	try {
@@ -119,6 +125,7 @@ export function main(argv: string[], io: Io = nodeIo): number {
 	try {
 		const args = parseArgs(argv);
 		json = args.flags.has('--json');
+		readOptions = readOptionsFrom(args);
 		const [cmd, ...rest] = args.positional;
 		if (!cmd || args.flags.has('--help')) {
 			io.out(USAGE);
@@ -129,12 +136,15 @@ export function main(argv: string[], io: Io = nodeIo): number {
 				if (rest.length !== 1) throw new UsageError('check needs exactly one FILE');
 				const specs = args.flags.get('--spec') ?? [];
 				if (!specs.length) throw new UsageError('check needs at least one --spec "OUT = EXPR"');
-				const { doc, warnings, definitionLines } = loadDocument(rest[0], io);
+				const { doc, warnings, notes, definitionLines } = loadDocument(rest[0], io);
 				const c = lower(doc, rest[0]);
 				const r = checkCircuit(c, specs, { inputs: inputChoice(args, c), definitionLines });
 				if (!json) for (const w of warnings) io.err(w);
-				if (json) io.out(JSON.stringify(r, null, 2));
-				else printCheck(r, rest[0], io);
+				if (json) io.out(JSON.stringify({ ...r, importNotes: notes }, null, 2));
+				else {
+					printCheck(r, rest[0], io);
+					for (const n of notes) io.out(`  read: ${n}`);
+				}
 				return r.ok ? 0 : 1;
 			}
 			case 'run': {

@@ -7,7 +7,7 @@
  */
 import { readFileSync } from 'node:fs';
 import { pathToFileURL } from 'node:url';
-import { CliError as PushError, loadCircuitFile, parseArgs } from './files.js';
+import { CliError as PushError, FILE_OPTIONS, loadCircuitFile, parseArgs, readOptionsFrom, type ReadOptions } from './files.js';
 import { QasmError } from '../lib/quantum/qasm/lexer.js';
 import { lowerCircuit } from '../lib/quantum/lower.js';
 import type { CircuitDocument } from '../lib/quantum/circuit.js';
@@ -35,7 +35,7 @@ export const PUSH_USAGE = `usage: orrery push FILE --spec "OUT = EXPR" [--spec â
 
 
 type Flags = Map<string, string[]>;
-const VALUED = new Set(['--spec', '--server', '--token', '--inputs', '--seed', '--input', '--title', '--severity']);
+const VALUED = new Set(['--spec', '--server', '--token', '--inputs', '--seed', '--input', '--title', '--severity', ...FILE_OPTIONS]);
 function parse(argv: string[]): { file: string; flags: Flags } {
 	const { positional, flags } = parseArgs(argv, VALUED);
 	if (flags.has('--help')) return { file: '', flags };
@@ -53,8 +53,8 @@ function values(text: string, what: string): Map<string, bigint> {
 	return m;
 }
 
-function loadDocument(path: string, io: PushIo): CircuitDocument {
-	return loadCircuitFile(path, (p) => io.readFile(p)).doc;
+function loadDocument(path: string, io: PushIo, options: ReadOptions): CircuitDocument {
+	return loadCircuitFile(path, (p) => io.readFile(p), options).doc;
 }
 
 async function call<T>(io: PushIo, server: string, token: string, path: string, body?: unknown): Promise<T> {
@@ -97,7 +97,7 @@ export async function runPush(argv: string[], io: PushIo = nodeIo): Promise<numb
 		if (!server) throw new PushError('push needs --server URL (the Orrery site, e.g. https://orrery.example)');
 		if (!token) throw new PushError('push needs --token T (or ORRERY_TOKEN): an API token of the team');
 
-		const doc = loadDocument(file, io);
+		const doc = loadDocument(file, io, readOptionsFrom({ positional: [file], flags }));
 		doc.specs = [...new Set([...(doc.specs ?? []), ...specs])];
 		const c = lowerCircuit(doc);
 		const given = flags.get('--inputs')?.[0];

@@ -259,6 +259,12 @@ export interface CircuitDocument {
 	 * basis input. Checks (proof and sweep) cover exactly the inputs that satisfy all of them.
 	 */
 	assume?: string[];
+	/**
+	 * How the registers were named over the qubits of an imported file (`qasm/register-map.ts`):
+	 * `{ name: 'x', qubits: 'q[15:-1:0]' }` = x's bit 0 is the file's q[15]. The body already
+	 * refers to the mapped registers; this is kept for display and re-export.
+	 */
+	registerMap?: { name: string; qubits: string }[];
 }
 
 // ----------------------------------------------------------------------------------------------

@@ -130,7 +130,8 @@ export const circuitDocumentSchema = z.strictObject({
 	blocks: z.array(userBlock).max(256).optional(),
 	defaults: z.strictObject({ ccpLowering: ccpLowering.optional(), layout: layout.optional() }).optional(),
 	specs: z.array(z.string().min(1).max(500)).max(16).optional(),
-	assume: z.array(z.string().min(1).max(500)).max(16).optional()
+	assume: z.array(z.string().min(1).max(500)).max(16).optional(),
+	registerMap: z.array(z.strictObject({ name, qubits: z.string().min(1).max(2000) })).max(256).optional()
 });
 
 /** One validation problem, with the JSON path of the bad field (`body[2].angle`). */

@@ -14,9 +14,9 @@
  * 2. The Toffoli as the 6-CNOT, 7-T network of Nielsen & Chuang Fig. 4.9 (the body of `ccx` in
  *    qelib1.inc), matched gate for gate on its three qubits (other qubits' gates may interleave).
  * 3. Cancellation: two diagonal gates on the same qubit set whose exact angles sum to 0 turn, one
- *    of them made by rule 1, with only gates between them that commute with both (diagonal
- *    gates, CNOTs and Toffolis whose target is outside the set), are both removed. Gates the file
- *    wrote outside a recognised decomposition are never removed.
+ *    of them made by rule 1, with nothing between them on those qubits but diagonal gates made by
+ *    rule 1 (which commute with both), are both removed. Gates the file wrote outside a
+ *    recognised decomposition are never removed, and a leftover stays beside its own line.
  *
  * Only top-level gate items of a document with literal indices take part; any other item is a
  * barrier. Qubit order: {register, index}, index 0 = LSB. Angles: turns (document strings).
@@ -163,31 +163,33 @@ export function recogniseDecompositions(doc: CircuitDocument, options: PeepholeO
 		i++;
 	}
 
-	// 3. Cancel exact pairs.
+	// 3. Cancel exact pairs: a gate and the next gate touching its qubits (skipping only gates made
+	// from the same source item as either), so a leftover stays next to the line that caused it.
+	// Repeated (a few passes) so that a pair whose neighbours cancel later in the list still meets.
 	const gone = new Uint8Array(out.length);
-	for (let i = 0; i < out.length; i++) {
-		const gi = out[i].g;
-		if (gone[i] || gi.kind !== 'diag' || !gi.angle!.exact) continue;
-		const set = gi.qs;
-		for (let j = i + 1, seen = 0; j < out.length && seen < 256; j++) {
-			if (gone[j]) continue;
-			const gj = out[j].g;
-			seen++;
-			if (gj.kind === 'barrier') break;
-			if (!gj.qs.some((q) => set.includes(q))) continue;
-			if (gj.kind === 'diag') {
-				if ((gi.made || gj.made) && gj.angle!.exact && sameSet(gj.qs, set) && isZero(addAngles(gi.angle!, gj.angle!))) {
+	for (let pass = 0, changed = true; changed && pass < 6; pass++) {
+		changed = false;
+		for (let i = 0; i < out.length; i++) {
+			const gi = out[i].g;
+			if (gone[i] || gi.kind !== 'diag' || !gi.angle!.exact) continue;
+			const set = gi.qs;
+			for (let j = i + 1, seen = 0; j < out.length && seen < 256; j++) {
+				if (gone[j]) continue;
+				const gj = out[j].g;
+				seen++;
+				if (gj.kind === 'barrier') break;
+				if (!gj.qs.some((q) => set.includes(q))) continue;
+				if (gj.kind === 'diag' && (gi.made || gj.made) && gj.angle!.exact && sameSet(gj.qs, set) && isZero(addAngles(gi.angle!, gj.angle!))) {
 					gone[i] = gone[j] = 1;
+					changed = true;
 					report.cancelledPairs++;
 					for (const x of [gi, gj]) if ((x.item as GateItem).gate === 'rz') report.rzAsPhase++;
 					break;
 				}
-				continue;
+				// Siblings (diagonal, made from one source gate) commute with gi and may be stepped over.
+				if (gj.kind === 'diag' && gj.made && (out[j].from === out[i].from || (j + 1 < out.length && out[j + 1].from === out[j].from) || out[j - 1]?.from === out[j].from)) continue;
+				break;
 			}
-			// A CNOT or Toffoli whose target is outside the set leaves the set's values alone.
-			const gate = (gj.item as GateItem).gate;
-			if ((gate === 'cx' || gate === 'ccx') && !set.includes(gj.qs[gj.qs.length - 1])) continue;
-			break;
 		}
 	}
 	const body: BodyItem[] = [];

@@ -1,0 +1,75 @@
+// Worked examples of issue 13 from the command line (fixtures written by
+// scripts/make-qasm-fixtures.ts: the Fourier adder of Draper 2000, quant-ph/0008033, with every
+// controlled phase written out as single-qubit phases and two CNOTs).
+import { readFileSync } from 'node:fs';
+import { fileURLToPath } from 'node:url';
+import { describe, expect, it } from 'vitest';
+import { main, type Io } from './orrery.js';
+
+const fixtures = fileURLToPath(new URL('../lib/quantum/qasm/fixtures/', import.meta.url));
+
+function run(argv: string[]) {
+	const out: string[] = [];
+	const err: string[] = [];
+	const io: Io = { out: (t) => out.push(t), err: (t) => err.push(t), readFile: (p) => readFileSync(p, 'utf8'), writeFile: () => {} };
+	const code = main(argv, io);
+	return { code, out: out.join('\n'), err: err.join('\n') };
+}
+
+const msbFirst = ['--register', 'a=q[4:-1:0]', '--register', 'b=q[9:-1:5]'];
+
+describe('5-bit adder in one flat register, most-significant bit first, decomposed cp, 6-digit angles', () => {
+	it('is proved, and the exhaustive sweep of all 1024 inputs agrees', () => {
+		const r = run(['check', `${fixtures}adder5-flat-msb.qasm`, '--spec', 'b = a + b mod 32', ...msbFirst]);
+		expect(r.err).toBe('');
+		expect(r.code).toBe(0);
+		expect(r.out).toContain('1024 checked (all), 0 failed');
+		expect(r.out).toContain('proof: proved');
+		expect(r.out).toContain('read: 105 printed angles read as exact k/2^m turn (largest difference 4.59e-7 rad)');
+		expect(r.out).toMatch(/35 CNOT regions read as diagonal phase gates/);
+	});
+	it('with one rotation halved (line 102) it is refuted, line 102 the first suspect, and every input fails the sweep', () => {
+		const r = run(['check', `${fixtures}adder5-flat-msb-halved.qasm`, '--spec', 'b = a + b mod 32', ...msbFirst]);
+		expect(r.code).toBe(1);
+		expect(r.out).toContain('1024 checked (all), 1024 failed');
+		expect(r.out).toContain('proof: refuted');
+		expect(r.out).toContain('wrong term on b[3]: coefficient of 1 is -1/32 turn, expected 0 turn');
+		expect(r.out).toMatch(/suspect: line 102 \(gate \d+, p on b\[3\]\)/);
+		expect(r.out.indexOf('suspect: line 102')).toBe(r.out.indexOf('suspect:'));
+	});
+	it('without the register map the specs name registers the file does not have', () => {
+		const r = run(['check', `${fixtures}adder5-flat-msb.qasm`, '--spec', 'b = a + b mod 32']);
+		expect(r.code).toBe(2);
+	});
+	it('read LSB first by mistake (a=q[0:4]) the same file fails', () => {
+		const r = run(['check', `${fixtures}adder5-flat-msb.qasm`, '--spec', 'b = a + b mod 32', '--register', 'a=q[0:4]', '--register', 'b=q[5:9]']);
+		expect(r.code).toBe(1);
+	});
+	it('with --exact-decimals off the angles stay inexact and nothing is proved', () => {
+		const r = run(['check', `${fixtures}adder5-flat-msb.qasm`, '--spec', 'b = a + b mod 32', ...msbFirst, '--exact-decimals', 'off']);
+		expect(r.out).not.toContain('proof: proved');
+		expect(r.out).toContain('105 printed angles fit no k/2^m turn (exact reading of decimals is off)');
+	});
+});
+
+describe('10-bit adder, rz-decomposed controlled phases, full-precision floats', () => {
+	it('is proved for all inputs (rz differs from p only by a global phase, which the note says)', () => {
+		const r = run(['check', `${fixtures}adder10-flat-rz.qasm`, '--spec', 'b = a + b mod 1024', '--register', 'a=q[0:9]', '--register', 'b=q[10:19]']);
+		expect(r.code).toBe(0);
+		expect(r.out).toContain('proof: proved');
+		expect(r.out).toContain('1000 checked, 0 failed');
+		expect(r.out).toMatch(/435 printed angles read as exact/);
+		expect(r.out).toMatch(/rz read as p: equal up to a global phase/);
+	});
+});
+
+describe('--register errors name the flag', () => {
+	const check = (...extra: string[]) => run(['check', `${fixtures}adder5-flat-msb.qasm`, '--spec', 'b = a + b mod 32', ...extra]);
+	it('out of range, overlap, unknown register, bad syntax', () => {
+		expect(check('--register', 'a=q[4:-1:0]', '--register', 'b=q[10:-1:5]').err).toMatch(/^--register "b=q\[10:-1:5\]": index 10 is out of range for q\[10\]; expected 0\.\.9/);
+		expect(check('--register', 'a=q[4:-1:0]', '--register', 'b=q[9:-1:4]').err).toMatch(/^--register "b=q\[9:-1:4\]": q\[4\] is already bit 0 of "a"/);
+		expect(check('--register', 'a=r[0:3]').err).toMatch(/^--register "a=r\[0:3\]": the file has no register "r"/);
+		expect(check('--register', 'a').err).toMatch(/^--register "a": expected NAME=QUBITS/);
+		expect(check('--exact-decimals', 'maybe').err).toMatch(/^--exact-decimals must be on or off/);
+	});
+});
