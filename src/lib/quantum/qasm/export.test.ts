@@ -51,7 +51,9 @@ describe('export then import gives the same circuit', () => {
 		it(`OpenQASM 3, ccp lowering ${lowering}`, () => {
 			const L = lowerCircuit(demo(lowering));
 			const text = exportQasm(L, { version: 3 });
-			expectSameGates(L, lowerCircuit(importQasm(text).document));
+			// Gate for gate with recognition off; with it on, decomposed ccp become mcp: same unitary.
+			expectSameGates(L, lowerCircuit(importQasm(text, { recogniseDecompositions: false }).document));
+			expect(unitaryDistance(circuitUnitary(L), circuitUnitary(lowerCircuit(importQasm(text).document)))).toBeLessThan(1e-9);
 		});
 	it('OpenQASM 3 writes mcp with two controls as ctrl(2) @ p and 40-bit angles exactly', () => {
 		const text = exportQasm(demo('native'), { version: 3 });
@@ -62,7 +64,7 @@ describe('export then import gives the same circuit', () => {
 		const L = lowerCircuit(demo('no-ancilla'));
 		const text = exportQasm(L, { version: 2 });
 		expect(text.startsWith('OPENQASM 2.0;\ninclude "qelib1.inc";')).toBe(true);
-		expectSameGates(L, lowerCircuit(importQasm(text).document));
+		expectSameGates(L, lowerCircuit(importQasm(text, { recogniseDecompositions: false }).document));
 	});
 	it('OpenQASM 2 defines multi-controlled phases as gates; the re-import is the same unitary', () => {
 		const doc: CircuitDocument = {
