@@ -18,7 +18,8 @@ export function importCircuitText(name: string, text: string): ImportResult {
 	if (trimmed.startsWith('{') || /\.json$/i.test(name)) return importJson(name, text);
 	try {
 		const r = importQasm(text, { file: name });
-		return { ok: true, document: r.document, warnings: r.warnings.map((w) => `${name}:${w.line}:${w.column}: ${w.message}`) };
+		// Notes say how printed decimals and decomposed gates were read, so the user can see it.
+		return { ok: true, document: r.document, warnings: [...r.warnings.map((w) => `${name}:${w.line}:${w.column}: ${w.message}`), ...r.notes.map((n) => `${name}: ${n}`)] };
 	} catch (e) {
 		// QasmError messages already read "file:line:column: what is wrong, what was expected".
 		return { ok: false, errors: [(e as Error).message] };
