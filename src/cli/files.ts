@@ -32,19 +32,28 @@ export function parseArgs(argv: string[], valued: ReadonlySet<string>): Args {
 }
 
 /** The options every command that reads a circuit file accepts. */
-export const FILE_OPTIONS = ['--register', '--exact-decimals'] as const;
+export const FILE_OPTIONS = ['--register', '--exact-decimals', '--param'] as const;
 
 /** How to read a circuit file: register maps (`--register x=q[0:3]`) and printed decimals (`--exact-decimals on|off`). */
 export interface ReadOptions {
 	registers?: string[];
 	exactDecimals?: boolean;
+	/** OpenQASM 3 `input` values: name → expression (`--param theta=pi/8`). */
+	params?: Record<string, string>;
 }
 
 /** {@link ReadOptions} from parsed arguments; a bad value names its flag. */
 export function readOptionsFrom(args: Args): ReadOptions {
 	const d = args.flags.get('--exact-decimals')?.at(-1);
 	if (d !== undefined && d !== 'on' && d !== 'off') throw new CliError(`--exact-decimals must be on or off, got "${d}"`);
-	return { registers: args.flags.get('--register') ?? [], exactDecimals: d !== 'off' };
+	const params: Record<string, string> = {};
+	for (const t of args.flags.get('--param') ?? []) {
+		const m = /^\s*([A-Za-z_][A-Za-z0-9_]*)\s*=(.+)$/s.exec(t);
+		if (!m) throw new CliError(`--param "${t}": expected NAME=VALUE such as theta=pi/8`);
+		if (m[1] in params) throw new CliError(`--param ${m[1]} is given twice`);
+		params[m[1]] = m[2].trim();
+	}
+	return { registers: args.flags.get('--register') ?? [], exactDecimals: d !== 'off', params };
 }
 
 /**
@@ -96,7 +105,7 @@ export function loadCircuitFile(
 		const m = mapped(doc);
 		return { doc: m.document, warnings: [], notes: m.notes };
 	}
-	const r = importQasm(text, { file: path, defaultVersion: path.toLowerCase().endsWith('.qasm3') ? 3 : 2, exactDecimals: options.exactDecimals ?? true });
+	const r = importQasm(text, { file: path, defaultVersion: path.toLowerCase().endsWith('.qasm3') ? 3 : 2, exactDecimals: options.exactDecimals ?? true, params: options.params });
 	const m = mapped(r.document);
 	const definitionLines = new Map<string, number[]>();
 	r.document.body.forEach((item, i) => {

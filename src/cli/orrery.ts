@@ -47,6 +47,7 @@ Reading a file (every command):
                             bit (OpenQASM 3 index syntax): x=q[0:15], x=q[15:-1:0] (MSB first in the
                             file), x=q[{3,1,2,0}], x=x; repeatable; unmapped qubits stay in REG_rest
   --exact-decimals on|off   read printed decimals (0.785398) as the exact k/2^m turn they print (default on)
+  --param NAME=VALUE        value of an OpenQASM 3 "input angle NAME;" (or int), e.g. theta=pi/8; repeatable
 Registers read little-endian: name[0] is the least-significant bit.`;
 
 const VALUED = new Set(['--spec', '--inputs', '--input', '--engine', '--step', '--seed', '--ancilla', ...FILE_OPTIONS]);

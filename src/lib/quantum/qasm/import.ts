@@ -12,6 +12,7 @@ import type { Angle } from '../angle.js';
 import { lexQasm, QasmError, type Token } from './lexer.js';
 import { add, evaluateTokens, exactNum, mul, numToAngle, numToFloat, numToInteger, readPrintedAngle, type Num, type NumScope } from './expr.js';
 import { recogniseDecompositions, type PeepholeReport } from './peephole.js';
+import { applyRegisterMap, RegisterMapError, type RegisterMapEntry } from './register-map.js';
 import { matDagger, matMul, matSqrt, MATRICES, rzMatrix, ryMatrix, u3Matrix, zyz } from './matrix.js';
 
 /** A non-fatal note about the file (skipped statement, lenient reading), with its position. */
@@ -54,6 +55,8 @@ export interface QasmImportOptions {
 	exactDecimals?: boolean;
 	/** Recognise decomposed controlled phases, doubly controlled phases and Toffolis (`peephole.ts`). Default true. */
 	recogniseDecompositions?: boolean;
+	/** Values of OpenQASM 3 `input` parameters, as expressions (`theta` → `pi/8`). */
+	params?: Record<string, string>;
 }
 
 /** How printed decimals were read (see {@link QasmImportOptions.exactDecimals}). */
@@ -156,6 +159,19 @@ const BUILTINS: Record<string, Builtin> = {
 	ch: { params: 0, qubits: 2, lib: 'lib', build: (_p, q, o) => withCtrl([op('h', [q[1]], o)], [q[0]]) },
 	csx: { params: 0, qubits: 2, lib: 'lib', build: (_p, q, o) => withCtrl([umat(MATRICES.sx, q[1], o)], [q[0]]) },
 	ccx: { params: 0, qubits: 3, lib: 'lib', build: (_p, q, o) => withCtrl([op('x', [q[2]], o)], [q[0], q[1]]) },
+	// qelib1.inc (as common exporters ship it; from memory): u0 is an idle gate, rccx the relative-phase
+	// Toffoli h c; t c; cx b,c; tdg c; cx a,c; t c; cx b,c; tdg c; h c.
+	u0: { params: 1, qubits: 1, lib: 'lib2', build: () => [] },
+	rccx: {
+		params: 0,
+		qubits: 3,
+		lib: 'lib2',
+		build: (_p, q, o) => {
+			const [a, b, c] = q;
+			const cx = (x: number, y: number) => withCtrl([op('x', [y], o)], [x]);
+			return [op('h', [c], o), phase(QUARTER_PI, c, o), ...cx(b, c), phase(neg(QUARTER_PI), c, o), ...cx(a, c), phase(QUARTER_PI, c, o), ...cx(b, c), phase(neg(QUARTER_PI), c, o), op('h', [c], o)];
+		}
+	},
 	c3x: { params: 0, qubits: 4, lib: 'lib2', build: (_p, q, o) => withCtrl([op('x', [q[3]], o)], q.slice(0, 3)) },
 	c4x: { params: 0, qubits: 5, lib: 'lib2', build: (_p, q, o) => withCtrl([op('x', [q[4]], o)], q.slice(0, 4)) },
 	crz: { params: 1, qubits: 2, lib: 'lib', build: (p, q, o) => withCtrl([op('rz', [q[1]], o, { angle: p[0] })], [q[0]]) },
@@ -344,6 +360,357 @@ class Reader {
 		return Number(v);
 	}
 
+	// ------------------------------------------------------------------------------------------
+	// OpenQASM 3 control flow: loops and subroutines re-read their body's tokens for each
+	// iteration / call, with loop variables and arguments bound in `consts` and qubit arguments
+	// and `let` names in `aliases`. Work is bounded by `maxIterations` and `maxDepth`.
+
+	readonly subs = new Map<string, { tok: Token; params: { name: string; kind: 'qubit' | 'angle' | 'int'; size: number | null }[]; bodyStart: number; bodyEnd: number }>();
+	/** Qubit names that are not registers: `let` aliases and subroutine qubit arguments (flat qubits). */
+	aliases = new Map<string, { qubits: number[]; tok: Token }>();
+	/** Top-level `let` aliases, in order: they become registers of the document. */
+	readonly topLets: { name: string; qubits: number[]; tok: Token }[] = [];
+	params = new Map<string, string>();
+	private iterations = 0;
+	private subDepth = 0;
+
+	/** Tokens inside `[ … ]` (the `[` already read), up to the matching `]` (read). */
+	private bracketTokens(open: Token): Token[] {
+		const out: Token[] = [];
+		let depth = 0;
+		for (;;) {
+			const t = this.peek();
+			if (t.kind === 'eof') this.err(open, 'missing "]" to close this index');
+			if (t.kind === 'punct' && (t.text === '[' || t.text === '{' || t.text === '(')) depth++;
+			if (t.kind === 'punct' && (t.text === ']' || t.text === '}' || t.text === ')')) {
+				if (depth === 0) {
+					if (t.text !== ']') this.err(t, `expected "]" to close the index, found "${t.text}"`);
+					this.next();
+					break;
+				}
+				depth--;
+			}
+			if (t.kind === 'punct' && t.text === ';') this.err(t, 'missing "]" to close the index before ";"');
+			out.push(this.next());
+			if (out.length > 10_000) this.err(open, 'index is too long');
+		}
+		if (out.length === 0) this.err(open, 'empty index; expected an index, a range a:b or a set {i, j}');
+		return out;
+	}
+
+	/** Split tokens at depth-0 occurrences of `sep`. */
+	private splitTokens(tokens: Token[], sep: string): Token[][] {
+		const parts: Token[][] = [[]];
+		let depth = 0;
+		for (const t of tokens) {
+			if (t.kind === 'punct' && (t.text === '(' || t.text === '[' || t.text === '{')) depth++;
+			if (t.kind === 'punct' && (t.text === ')' || t.text === ']' || t.text === '}')) depth--;
+			if (depth === 0 && t.kind === 'punct' && t.text === sep) parts.push([]);
+			else parts[parts.length - 1].push(t);
+		}
+		return parts;
+	}
+
+	/** Integer values of an index set: `i`, `a:b`, `a:s:b` (inclusive, OpenQASM 3) or `{i, j, …}`. */
+	private indexValues(tokens: Token[], size: number | null, what: string): number[] {
+		const first = tokens[0];
+		if (first.kind === 'punct' && first.text === '{') {
+			const last = tokens[tokens.length - 1];
+			if (!(last.kind === 'punct' && last.text === '}')) this.err(first, `a set in ${what} must end with "}"`);
+			return this.splitTokens(tokens.slice(1, -1), ',').map((p) => {
+				if (!p.length) this.err(first, `empty element in the set of ${what}`);
+				return this.intExpr(p, 'set element', -1e9, 1e9);
+			});
+		}
+		const parts = this.splitTokens(tokens, ':');
+		if (parts.length === 1) return [this.intExpr(tokens, 'index', -1e9, 1e9)];
+		if (parts.length > 3 || parts.some((p) => p.length === 0)) this.err(first, `a range in ${what} is start:end or start:step:end (both ends given)`);
+		const start = this.intExpr(parts[0], 'range start', -1e9, 1e9);
+		const end = this.intExpr(parts[parts.length - 1], 'range end', -1e9, 1e9);
+		const step = parts.length === 3 ? this.intExpr(parts[1], 'range step', -1e9, 1e9) : 1;
+		if (step === 0) this.err(parts[1][0], 'the range step must not be 0');
+		const count = Math.max(0, Math.floor((end - start) / step) + 1);
+		if (count > (size ?? this.limits.maxGates)) this.err(first, `the range ${start}:${step}:${end} has ${count} values; at most ${size ?? this.limits.maxGates} here`);
+		return Array.from({ length: count }, (_, k) => start + k * step);
+	}
+
+	/** Flat qubits a qubit argument names (a register, an alias, indexed by an index set). */
+	private qubitsOf(q: { name: string; index: Token[] | null; tok: Token }): number[] {
+		const alias = this.aliases.get(q.name);
+		let base: number[];
+		let label: string;
+		if (alias) {
+			base = alias.qubits;
+			label = `"${q.name}"`;
+		} else {
+			const r = this.regByName.get(q.name);
+			if (!r) {
+				if (this.cregs.has(q.name)) this.err(q.tok, `"${q.name}" is a classical register; expected a qubit register`);
+				this.err(q.tok, `undefined register "${q.name}"; declare it first with ${this.version === 2 ? 'qreg' : 'qubit[n]'}`);
+			}
+			base = Array.from({ length: r.size }, (_, i) => r.offset + i);
+			label = `register "${r.name}"`;
+		}
+		if (!q.index) return base;
+		const idx = this.indexValues(q.index, base.length, `the index of "${q.name}"`);
+		return idx.map((i) => {
+			const j = i < 0 ? base.length + i : i; // OpenQASM 3: negative indices count from the end
+			if (j < 0 || j >= base.length) this.err(q.index![0], `index ${i} out of range for ${label} of size ${base.length}; expected 0..${base.length - 1}`);
+			return base[j];
+		});
+	}
+
+	/** `{ statements }`, the `{` not yet read. */
+	private block(what: string): void {
+		const open = this.expectP('{', `to open the body of ${what}`);
+		while (!this.isP('}')) {
+			if (this.peek().kind === 'eof') this.err(open, `missing "}" to close the body of ${what} before the end of the file`);
+			this.statement();
+		}
+		this.next();
+	}
+
+	/** Skip `{ … }` (the `{` not yet read); returns the positions just inside and just after it. */
+	private skipBlock(what: string): { start: number; end: number } {
+		const open = this.expectP('{', `to open the body of ${what}`);
+		const start = this.pos;
+		let depth = 1;
+		while (depth > 0) {
+			const t = this.next();
+			if (t.kind === 'eof') this.err(open, `missing "}" to close the body of ${what} before the end of the file`);
+			if (t.kind === 'punct' && t.text === '{') depth++;
+			if (t.kind === 'punct' && t.text === '}') depth--;
+		}
+		return { start, end: this.pos };
+	}
+
+	/** Run the statements between token positions (a body already skipped once), then come back. */
+	private replay(start: number, end: number, bind: () => void, unbind: () => void): void {
+		const back = this.pos;
+		this.pos = start;
+		bind();
+		try {
+			while (this.pos < end - 1) this.statement();
+		} finally {
+			unbind();
+		}
+		this.pos = back;
+	}
+
+	private countIteration(at: Token): void {
+		if (++this.iterations > this.limits.maxGates) this.err(at, `more than ${this.limits.maxGates} loop iterations and subroutine calls in all (limit)`);
+	}
+
+	private forLoop(): void {
+		const kw = this.next();
+		// for [type] name in [range] / {set} / register
+		let nameTok = this.expectIdent('a loop variable (for uint i in [0:3] { … })');
+		if (['int', 'uint'].includes(nameTok.text) && !this.isP('[') && this.peek().kind === 'ident' && this.peek().text !== 'in') nameTok = this.next();
+		else if (['int', 'uint'].includes(nameTok.text) && this.isP('[')) {
+			this.bracketTokens(this.next());
+			nameTok = this.expectIdent('a loop variable');
+		}
+		const inTok = this.expectIdent('"in" after the loop variable');
+		if (inTok.text !== 'in') this.err(inTok, `expected "in" after the loop variable, found "${inTok.text}"`);
+		let values: number[];
+		if (this.isP('[')) values = this.indexValues(this.bracketTokens(this.next()), null, 'the loop range');
+		else if (this.isP('{')) {
+			const open = this.next();
+			const toks: Token[] = [open];
+			while (!this.isP('}')) {
+				if (this.peek().kind === 'eof' || this.isP(';')) this.err(open, 'missing "}" to close the set of loop values');
+				toks.push(this.next());
+			}
+			toks.push(this.next());
+			values = this.indexValues(toks, null, 'the loop set');
+		} else this.err(this.peek(), `expected a range [a:b] or a set {i, j} after "in", found ${this.describe(this.peek())}`);
+		const name = nameTok.text;
+		if (this.regByName.has(name) || this.aliases.has(name)) this.err(nameTok, `loop variable "${name}" hides a qubit register of the same name`);
+		const body = this.skipBlock('the for loop');
+		const saved = this.consts.get(name);
+		for (const v of values) {
+			this.countIteration(kw);
+			this.replay(
+				body.start,
+				body.end,
+				() => this.consts.set(name, exactNum(BigInt(v))),
+				() => (saved === undefined ? this.consts.delete(name) : this.consts.set(name, saved))
+			);
+		}
+	}
+
+	private defDecl(): void {
+		this.next();
+		const nameTok = this.expectIdent('a subroutine name after "def"');
+		if (this.subs.has(nameTok.text) || this.defs.has(nameTok.text) || BUILTINS[nameTok.text]) this.err(nameTok, `duplicate declaration: "${nameTok.text}" is already defined`);
+		this.expectP('(', `after "def ${nameTok.text}"`);
+		const params: { name: string; kind: 'qubit' | 'angle' | 'int'; size: number | null }[] = [];
+		while (!this.isP(')')) {
+			const ty = this.expectIdent('a parameter type (qubit, qubit[n], angle, float, int, uint)');
+			let size: number | null = null;
+			if (this.isP('[')) {
+				const br = this.next();
+				const toks = this.bracketTokens(br);
+				if (ty.text === 'qubit') size = this.intExpr(toks, 'qubit array size', 1, this.limits.maxQubits);
+			}
+			let kind: 'qubit' | 'angle' | 'int';
+			if (ty.text === 'qubit') kind = 'qubit';
+			else if (ty.text === 'angle' || ty.text === 'float') kind = 'angle';
+			else if (ty.text === 'int' || ty.text === 'uint') kind = 'int';
+			else this.err(ty, `unsupported parameter type "${ty.text}"; expected qubit, qubit[n], angle, float, int or uint`);
+			const p = this.expectIdent('a parameter name');
+			if (params.some((x) => x.name === p.text)) this.err(p, `duplicate declaration: parameter "${p.text}" appears twice`);
+			params.push({ name: p.text, kind, size: kind === 'qubit' ? (size ?? 1) : null });
+			if (this.isP(',')) this.next();
+			else break;
+		}
+		this.expectP(')', `to close the parameters of "${nameTok.text}"`);
+		if (this.isP('->')) this.err(this.peek(), 'subroutines that return a value are not supported; expected a body "{"');
+		const body = this.skipBlock(`def ${nameTok.text}`);
+		this.subs.set(nameTok.text, { tok: nameTok, params, bodyStart: body.start, bodyEnd: body.end });
+	}
+
+	private callSub(): void {
+		const nameTok = this.next();
+		const sub = this.subs.get(nameTok.text)!;
+		this.expectP('(', `after "${nameTok.text}"`);
+		const args: Token[][] = [];
+		if (!this.isP(')'))
+			for (;;) {
+				args.push(this.exprTokensWithBrackets(`an argument of ${nameTok.text}`));
+				if (this.isP(',')) {
+					this.next();
+					continue;
+				}
+				break;
+			}
+		this.expectP(')', `after the arguments of ${nameTok.text}`);
+		this.expectP(';', `the call of ${nameTok.text}`);
+		if (args.length !== sub.params.length) this.err(nameTok, `subroutine ${nameTok.text} takes ${sub.params.length} argument${sub.params.length === 1 ? '' : 's'}, got ${args.length}`);
+		if (this.subDepth >= this.limits.maxDepth) this.err(nameTok, `subroutine calls nested deeper than ${this.limits.maxDepth} (limit)`);
+		this.countIteration(nameTok);
+		const newAliases = new Map<string, { qubits: number[]; tok: Token }>();
+		const newConsts: [string, Num][] = [];
+		const used = new Set<number>();
+		sub.params.forEach((p, i) => {
+			const a = args[i];
+			if (p.kind === 'qubit') {
+				const id = a[0];
+				if (id.kind !== 'ident') this.err(id, `argument ${i + 1} of ${nameTok.text} must be qubits (parameter "${p.name}")`);
+				let index: Token[] | null = null;
+				if (a.length > 1) {
+					if (!(a[1].kind === 'punct' && a[1].text === '[') || !(a[a.length - 1].kind === 'punct' && a[a.length - 1].text === ']'))
+						this.err(a[1], `argument ${i + 1} of ${nameTok.text}: expected a register, an alias or an indexed qubit`);
+					index = a.slice(2, -1);
+				}
+				const qs = this.qubitsOf({ name: id.text, index, tok: id });
+				if (qs.length !== p.size) this.err(id, `argument ${i + 1} of ${nameTok.text} has ${qs.length} qubit${qs.length === 1 ? '' : 's'}; parameter "${p.name}" takes ${p.size}`);
+				for (const q of qs) {
+					if (used.has(q)) this.err(id, `argument ${i + 1} of ${nameTok.text} repeats a qubit of an earlier argument`);
+					used.add(q);
+				}
+				newAliases.set(p.name, { qubits: qs, tok: id });
+			} else {
+				let v = p.kind === 'angle' ? this.angleParam(a, this.consts) : this.evaluate(a, this.consts);
+				if (p.kind === 'int') {
+					const iv = numToInteger(v);
+					if (iv === null) this.err(a[0], `argument ${i + 1} of ${nameTok.text} must be an integer (parameter "${p.name}")`);
+					v = exactNum(iv);
+				}
+				newConsts.push([p.name, v]);
+			}
+		});
+		const savedAliases = this.aliases;
+		const savedConsts = new Map(this.consts);
+		this.subDepth++;
+		this.replay(
+			sub.bodyStart,
+			sub.bodyEnd,
+			() => {
+				this.aliases = newAliases;
+				for (const [k, v] of newConsts) this.consts.set(k, v);
+			},
+			() => {
+				this.aliases = savedAliases;
+				this.consts.clear();
+				for (const [k, v] of savedConsts) this.consts.set(k, v);
+				this.subDepth--;
+			}
+		);
+	}
+
+	/** Expression tokens that may contain a bracketed index (`q[0:2]`), up to `,` or `)` at depth 0. */
+	private exprTokensWithBrackets(what: string): Token[] {
+		const out: Token[] = [];
+		let depth = 0;
+		for (;;) {
+			const t = this.peek();
+			if (t.kind === 'eof' || (t.kind === 'punct' && t.text === ';')) this.err(t, `unexpected ${this.describe(t)} in ${what}`);
+			if (t.kind === 'punct') {
+				if (t.text === '(' || t.text === '[' || t.text === '{') depth++;
+				else if (t.text === ')' || t.text === ']' || t.text === '}') {
+					if (depth === 0) break;
+					depth--;
+				} else if (t.text === ',' && depth === 0) break;
+			}
+			out.push(this.next());
+		}
+		if (!out.length) this.err(this.peek(), `expected ${what}, found ${this.describe(this.peek())}`);
+		return out;
+	}
+
+	private letDecl(): void {
+		this.next();
+		const nameTok = this.expectIdent('a name after "let"');
+		const name = nameTok.text;
+		if (this.regByName.has(name) || this.aliases.has(name) || this.cregs.has(name) || this.consts.has(name)) this.err(nameTok, `duplicate declaration: "${name}" is already declared`);
+		this.expectP('=', `after "let ${name}"`);
+		const qubits: number[] = [];
+		for (;;) {
+			const id = this.expectIdent('a register or alias (let x = q[0:3];)');
+			let index: Token[] | null = null;
+			if (this.isP('[')) index = this.bracketTokens(this.next());
+			qubits.push(...this.qubitsOf({ name: id.text, index, tok: id }));
+			if (this.isP('++')) {
+				this.next();
+				continue;
+			}
+			break;
+		}
+		this.expectP(';', `let ${name}`);
+		if (new Set(qubits).size !== qubits.length) this.err(nameTok, `let ${name} names a qubit twice`);
+		this.aliases.set(name, { qubits, tok: nameTok });
+		if (this.subDepth === 0) this.topLets.push({ name, qubits, tok: nameTok });
+	}
+
+	private inputDecl(): void {
+		const kw = this.next();
+		const ty = this.expectIdent('a type after "input" (angle, float, int, uint)');
+		if (!['angle', 'float', 'int', 'uint'].includes(ty.text)) this.err(ty, `unsupported input type "${ty.text}"; expected angle, float, int or uint`);
+		if (this.isP('[')) this.bracketTokens(this.next());
+		const nameTok = this.expectIdent('a name');
+		this.expectP(';', `input ${ty.text} ${nameTok.text}`);
+		const text = this.params.get(nameTok.text);
+		if (text === undefined) this.err(nameTok, `input ${ty.text} ${nameTok.text} has no value; give it with --param ${nameTok.text}=… (for example pi/8)`);
+		if (this.consts.has(nameTok.text) || this.regByName.has(nameTok.text)) this.err(nameTok, `duplicate declaration: "${nameTok.text}" is already declared`);
+		let tokens: Token[];
+		try {
+			tokens = lexQasm(text).slice(0, -1);
+		} catch (e) {
+			this.err(nameTok, `--param ${nameTok.text}=${text}: ${(e as QasmError).detail ?? (e as Error).message}`);
+		}
+		if (!tokens.length) this.err(nameTok, `--param ${nameTok.text} is empty`);
+		let v: Num;
+		try {
+			v = ty.text === 'angle' || ty.text === 'float' ? this.angleParam(tokens, this.consts) : this.evaluate(tokens, this.consts);
+		} catch (e) {
+			this.err(nameTok, `--param ${nameTok.text}=${text}: ${(e as QasmError).detail ?? (e as Error).message}`);
+		}
+		if ((ty.text === 'int' || ty.text === 'uint') && numToInteger(v) === null) this.err(nameTok, `--param ${nameTok.text}=${text} must be an integer`);
+		this.consts.set(nameTok.text, v);
+		void kw;
+	}
+
 	run(): void {
 		this.readHeader();
 		while (this.peek().kind !== 'eof') this.statement();
@@ -416,6 +783,24 @@ class Reader {
 				return;
 			case 'if':
 				this.err(t, 'classically controlled gates ("if") are not supported; the checker simulates unitary circuits only');
+		}
+		if (this.version === 3) {
+			switch (t.text) {
+				case 'for':
+					return this.forLoop();
+				case 'def':
+					return this.defDecl();
+				case 'let':
+					return this.letDecl();
+				case 'input':
+					return this.inputDecl();
+				case 'box': {
+					this.next();
+					if (this.isP('[')) this.bracketTokens(this.next());
+					return this.block('box');
+				}
+			}
+			if (this.subs.has(t.text) && this.isP('(', 1)) return this.callSub();
 		}
 		if (this.version === 3 && UNSUPPORTED_3.has(t.text)) this.err(t, `"${t.text}" is not supported; expected gates, gate definitions, registers and const values`);
 		if (this.cregs.has(t.text) && (this.isP('=', 1) || this.isP('[', 1))) {
@@ -595,9 +980,7 @@ class Reader {
 			if (this.isP('[')) {
 				const br = this.next();
 				if (formals) this.err(br, `qubit arguments inside a gate definition cannot be indexed; "${tok.text}" is a single qubit`);
-				index = this.exprTokens('an index');
-				if (index.some((x) => x.kind === 'punct' && (x.text === ':' || x.text === '{'))) this.err(index[0], 'index ranges and sets are not supported; expected a single index');
-				this.expectP(']', 'after the index');
+				index = this.bracketTokens(br);
 			}
 			if (formals && !formals.has(tok.text)) this.err(tok, `"${tok.text}" is not a qubit argument of this gate definition`);
 			out.push({ name: tok.text, index, tok });
@@ -725,25 +1108,14 @@ class Reader {
 		let width = 1;
 		let widthFrom: { name: string; tok: Token } | null = null;
 		for (const q of call.qargs) {
-			const r = this.regByName.get(q.name);
-			if (!r) {
-				if (this.cregs.has(q.name)) this.err(q.tok, `"${q.name}" is a classical register; expected a qubit register`);
-				this.err(q.tok, `undefined register "${q.name}"; declare it first with ${this.version === 2 ? 'qreg' : 'qubit[n]'}`);
+			const all = this.qubitsOf(q);
+			if (all.length !== 1) {
+				if (widthFrom && width !== all.length)
+					this.err(q.tok, `register size mismatch in broadcast: "${q.name}" has ${all.length} qubits but "${widthFrom.name}" has ${width}`);
+				width = all.length;
+				widthFrom = { name: q.name, tok: q.tok };
 			}
-			if (q.index) {
-				const i = this.intExpr(q.index, 'index', -1e9, 1e9);
-				if (i < 0 || i >= r.size) this.err(q.index[0], `index ${i} out of range for register "${r.name}" of size ${r.size}; expected 0..${r.size - 1}`);
-				lists.push([r.offset + i]);
-			} else {
-				const all = Array.from({ length: r.size }, (_, i) => r.offset + i);
-				if (r.size !== 1) {
-					if (widthFrom && width !== r.size)
-						this.err(q.tok, `register size mismatch in broadcast: "${r.name}" has ${r.size} qubits but "${widthFrom.name}" has ${width}`);
-					width = r.size;
-					widthFrom = { name: r.name, tok: q.tok };
-				}
-				lists.push(all);
-			}
+			lists.push(all);
 		}
 		const params = call.params.map((ex) => this.angleParam(ex, this.consts));
 		for (let k = 0; k < width; k++) {
@@ -959,6 +1331,7 @@ export function importQasm(text: string, options: QasmImportOptions = {}): QasmI
 	}
 	const r = new Reader(tokens, file, limits, options.defaultVersion ?? 3);
 	r.exactDecimals = options.exactDecimals ?? true;
+	r.params = new Map(Object.entries(options.params ?? {}));
 	try {
 		r.run();
 	} catch (e) {
@@ -987,6 +1360,27 @@ export function importQasm(text: string, options: QasmImportOptions = {}): QasmI
 			notes.push(`decomposed gates recognised: ${parts.join(', ')}${p.report.rzAsPhase ? ` (rz read as p: equal up to a global phase)` : ''}`);
 		}
 		if (p.report.stoppedAtLimit) notes.push('recognition of decomposed gates stopped at its work limit; the rest of the file is read as written');
+	}
+	if (r.topLets.length) {
+		// OpenQASM 3 `let` aliases of one register become registers of the document.
+		const entries: RegisterMapEntry[] = [];
+		for (const l of r.topLets) {
+			const reg = r.registers.find((x) => l.qubits[0] >= x.offset && l.qubits[0] < x.offset + x.size)!;
+			if (!l.qubits.every((q) => q >= reg.offset && q < reg.offset + reg.size)) {
+				r.warnings.push({ line: l.tok.line, column: l.tok.column, message: `let ${l.name} joins qubits of several registers; it stays an alias, not a register` });
+				continue;
+			}
+			entries.push({ name: l.name, qubits: `${reg.name}[{${l.qubits.map((q) => q - reg.offset).join(',')}}]` });
+		}
+		try {
+			const m = applyRegisterMap(document, entries);
+			document = m.document;
+			notes.push(`let aliases read as registers: ${entries.map((e) => e.name).join(', ')}`, ...m.notes);
+		} catch (e) {
+			if (!(e instanceof RegisterMapError)) throw e;
+			const at = e.entry >= 0 ? r.topLets.find((l) => l.name === entries[e.entry].name)!.tok : { line: 1, column: 1 };
+			r.warnings.push({ line: at.line, column: at.column, message: `let aliases kept as aliases, not registers: ${e.message}` });
+		}
 	}
 	return { document, version: r.version, warnings: r.warnings, origins, decimals: d, decompositions, notes };
 }
