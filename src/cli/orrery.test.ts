@@ -44,7 +44,7 @@ describe('orrery check', () => {
 		expect(j.method).toBe('sweep+proof');
 		expect(j.cases).toBe(64);
 		expect(j.failures.length).toBeLessThanOrEqual(20);
-		expect(Object.keys(j.failures[0]).sort()).toEqual(['engine', 'expected', 'got', 'input', 'probability']);
+		expect(Object.keys(j.failures[0]).sort()).toEqual(['engine', 'expected', 'got', 'input', 'probability', 'reason']);
 		expect(j.wrongTerms[0]).toEqual(expect.objectContaining({ target: 'b[2]', term: 'a[1]', expectedTurns: '1/4 turn', actualTurns: '1/8 turn', lines: [23] }));
 		expect(j.suspects[0]).toEqual(expect.objectContaining({ line: 23, gate: 10, qubit: 'b[2]' }));
 		expect(typeof j.suspects[0].reason).toBe('string');

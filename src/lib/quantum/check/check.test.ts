@@ -20,7 +20,7 @@ function checkText(text: string, specs: string[]): CheckReport {
 /** Proof and exhaustive sweep must agree whenever the proof applies. */
 function expectAgreement(r: CheckReport) {
 	expect(r.exhaustive).toBe(true);
-	if (r.proof.status !== 'outside' && r.proof.status !== 'skipped') expect(r.proof.status === 'proved').toBe(r.failed === 0);
+	if (r.proof.status !== 'undecided' && r.proof.status !== 'skipped') expect(r.proof.status === 'proved').toBe(r.failed === 0);
 }
 const suspectLines = (r: CheckReport) => r.suspects.flatMap((s) => [s.line, ...s.definitionLines]);
 
@@ -176,8 +176,10 @@ describe('proof over the library blocks', () => {
 		]);
 		const r = checkCircuit(lowerCircuit(d), ['b = b']);
 		expect(r.method).toBe('sweep');
-		expect(r.proof.status).toBe('outside');
-		expect(r.notes.join(' ')).toMatch(/outside the Fourier form at gate \d+: .*two qubits in the Fourier basis.*only a sweep ran/);
+		expect(r.proof.status).toBe('undecided');
+		expect(r.notes.join(' ')).toMatch(/Fourier form: .*two qubits in the Fourier basis.*the general prover ran instead/);
+		expect(r.proof.reason).toMatch(/couples b\[\d\] and b\[\d\], two qubits in superposition/);
+		expect(r.proof.summary).toMatch(/^Undecided: /);
 	});
 });
 

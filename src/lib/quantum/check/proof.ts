@@ -44,8 +44,10 @@ export interface WrongTerm {
 	/** For a term nothing added to: gates next to where it belongs (same target, or same term on another target). */
 	neighbours: number[];
 	lines: number[];
-	/** `section` (between QFT and inverse), `qft` / `iqft` (the transforms themselves). */
-	where: 'section' | 'qft' | 'iqft' | 'register';
+	/** `section` (between QFT and inverse), `qft` / `iqft` (the transforms themselves), `phase` (the global phase, which must not depend on the input). */
+	where: 'section' | 'qft' | 'iqft' | 'register' | 'phase';
+	/** The monomial as flat input qubits (empty for the constant term); null for QFT-internal terms. */
+	monomial?: number[] | null;
 	/** Exact difference actual − expected, reduced to (−½, ½] turn (as text). */
 	differenceTurns: string;
 }
@@ -87,6 +89,8 @@ export interface ProofResult {
 export interface ProofGoal {
 	/** Registers whose starting value varies (their bits are the variables); others start at 0. */
 	inputs: Set<string>;
+	/** Skip the global-phase check (values only). */
+	ignorePhase?: boolean;
 	/** Output register → required value as an integer polynomial (mod 2^size). */
 	outputs: Map<string, IntPoly>;
 }
@@ -185,6 +189,20 @@ export function proveCircuit(c: LoweredCircuit, goal: ProofGoal): ProofResult {
 	const registerMismatches: RegisterMismatch[] = [];
 	const consumed = new Uint8Array(c.gateCount);
 	let termsChecked = 0;
+	/** The global phase as a multilinear polynomial over input bits (monomial → turns), unless ignored. */
+	const global = new Map<string, PhaseTerm>();
+	const addGlobal = (poly: IntPoly, theta: Angle, g: number, scaleBy: bigint = 1n) => {
+		for (const [k, v] of poly) {
+			if (k === '') continue; // a constant global phase is allowed
+			const a = scaleAngle(theta, v * scaleBy);
+			const t = global.get(k);
+			if (t) {
+				t.angle = addAngles(t.angle, a);
+				if (t.from.length < 24) t.from.push([g, a]);
+			} else global.set(k, { angle: a, from: [[g, a]] });
+		}
+		if (global.size > MAX_POLY_TERMS) throw new Outside('the global phase polynomial grew beyond 4 million terms', g);
+	};
 
 	const qubitsOf = (g: number) => Array.from(c.qubitList.subarray(c.qubitStart[g], c.qubitStart[g + 1]));
 	const inRegister = (q: number, r: PlacedRegister) => q >= r.offset && q < r.offset + r.size;
@@ -263,7 +281,7 @@ export function proveCircuit(c: LoweredCircuit, goal: ProofGoal): ProofResult {
 		return levels;
 	};
 
-	const pushWrong = (target: string, term: string, want: Angle, got: Angle, from: Contribution[], where: WrongTerm['where'], d: ReturnType<typeof reduceSigned>, neighbours: number[] = []) => {
+	const pushWrong = (target: string, term: string, want: Angle, got: Angle, from: Contribution[], where: WrongTerm['where'], d: ReturnType<typeof reduceSigned>, neighbours: number[] = [], monomial: number[] | null = null) => {
 		if (wrongTerms.length >= 500) return;
 		const dA: Angle = d.exact ? dyadic(d.num, d.exp) : { exact: false, turns: d.turns - Math.floor(d.turns) };
 		const same = (x: Angle, y: Angle) => isZeroSigned(reduceSigned(subtractAngles(x, y)), 1e-12);
@@ -280,7 +298,8 @@ export function proveCircuit(c: LoweredCircuit, goal: ProofGoal): ProofResult {
 			lines: [...new Set(from.map(([g]) => lineOf(g)).filter((l) => l > 0))],
 			where,
 			differenceTurns: formatTurns(d),
-			neighbours
+			neighbours,
+			monomial
 		});
 	};
 
@@ -409,7 +428,7 @@ export function proveCircuit(c: LoweredCircuit, goal: ProofGoal): ProofResult {
 									}
 									for (const t of st.phase.values()) for (const [gg] of t.from) if (near.length < 9 && !near.includes(gg)) near.push(gg);
 								}
-								pushWrong(qname(r.offset + j), termName(key), expected, got.angle, got.from, 'section', d, near);
+								pushWrong(qname(r.offset + j), termName(key), expected, got.angle, got.from, 'section', d, near, key === '' ? [] : key.split('.').map(Number));
 							}
 						}
 						if (sec) sec.iqftGates = [seg[0], seg[seg.length - 1]];
@@ -427,7 +446,25 @@ export function proveCircuit(c: LoweredCircuit, goal: ProofGoal): ProofResult {
 					const ctl = qs.slice(0, nc).map((q) => anfOf(q, g, 'control'));
 					const t = state[qs[nc]];
 					if (t.kind === 'c') anfXorProduct(t.anf, ctl, g);
-					else if (t.kind === 'f') anfXorProduct(t.mask, ctl, g);
+					else if (t.kind === 'f') {
+						if (!goal.ignorePhase) {
+							// X^k on (|0⟩ + e^{iφ}|1⟩) adds k·φ to the global phase; φ = (1 − 2·mask)·(stored phase)
+							let k: IntPoly = new Map([['', 1n]]);
+							for (const a of ctl) k = polyTimes(k, anfToPoly(a, g), g);
+							if (t.mask.size) {
+								const oneMinus: IntPoly = new Map([['', 1n]]);
+								for (const [key, v] of anfToPoly(t.mask, g)) oneMinus.set(key, (oneMinus.get(key) ?? 0n) - 2n * v);
+								k = polyTimes(k, oneMinus, g);
+							}
+							for (const [key, term] of t.phase) {
+								if (!term.angle.exact) throw new Outside(`gate ${g} flips ${qname(qs[nc])} whose phase is inexact`, g);
+								const shifted: IntPoly = new Map();
+								for (const [kk, v] of k) shifted.set(mulKeys(kk, key), (shifted.get(mulKeys(kk, key)) ?? 0n) + v);
+								addGlobal(shifted, term.angle, g);
+							}
+						}
+						anfXorProduct(t.mask, ctl, g);
+					}
 					else throw new Outside(`gate ${g} flips ${qname(qs[nc])} after an inverse QFT; the prover does not expand computed sums bit by bit`, g);
 					break;
 				}
@@ -441,8 +478,14 @@ export function proveCircuit(c: LoweredCircuit, goal: ProofGoal): ProofResult {
 					const theta = c.angles[c.angleIndex[g]];
 					const fs = qs.filter((q) => state[q].kind === 'f');
 					if (fs.length > 1) throw new Outside(`gate ${g} couples ${fs.map(qname).join(' and ')}, two qubits in the Fourier basis (entangling)`, g);
+					if (k === GateCode.rz && !goal.ignorePhase && qs.length > 1) throw new Outside(`gate ${g} is a controlled rz; the Fourier form handles rz without controls`, g);
 					if (fs.length === 0) {
-						// classical qubits only: a phase per basis input (global); v-qubits are fine here too
+						// classical qubits only: a phase per basis input, θ·∏ bits, on the global phase
+						if (!goal.ignorePhase) {
+							let poly: IntPoly = new Map([['', 1n]]);
+							for (const q of qs) poly = polyTimes(poly, anfToPoly(anfOf(q, g, 'qubit of a phase gate'), g), g);
+							addGlobal(poly, theta, g);
+						}
 						break;
 					}
 					const f = state[fs[0]] as Extract<QState, { kind: 'f' }>;
@@ -492,6 +535,13 @@ export function proveCircuit(c: LoweredCircuit, goal: ProofGoal): ProofResult {
 					});
 				}
 			});
+		}
+		for (const [key, t] of global) {
+			termsChecked++;
+			const d = reduceSigned(t.angle);
+			if (isZeroSigned(d)) continue;
+			if (!d.exact) throw new Outside(`the global phase holds an inexact term on ${termName(key)}`, c.gateCount - 1);
+			pushWrong('global phase', termName(key), ZERO_ANGLE, t.angle, t.from, 'phase', d, [], key.split('.').map(Number));
 		}
 		return finish(wrongTerms.length || registerMismatches.length ? 'refuted' : 'proved');
 	} catch (e) {

@@ -57,7 +57,9 @@ export function parseSpec(text: string, registers: { name: string; size: number 
 	let modText: string | null = null;
 	let modCol = 0;
 	let depth = 0;
-	for (let i = rhs.length - 1; i >= 0; i--) {
+	// a conditional (`c == 3 ? (b + 5) mod 13 : b`) keeps its own precedence: no trailing split
+	const conditional = /\?/.test(rhs);
+	for (let i = rhs.length - 1; i >= 0 && !conditional; i--) {
 		const ch = rhs[i];
 		if (ch === ')') depth++;
 		else if (ch === '(') depth--;
@@ -80,28 +82,32 @@ export function parseSpec(text: string, registers: { name: string; size: number 
 	const expr = parse(rhs, rhsCol);
 	const modulus = modText !== null ? parse(modText, modCol) : null;
 	const reads = new Set<string>();
-	const check = (node: MathNode, base: number, src: string) => {
-		node.traverse((n, _path, parent) => {
-			const nd = n as unknown as { type: string; name?: string; fn?: string | { name: string }; value?: unknown };
-			if (nd.type === 'SymbolNode') {
-				const isFn = parent && (parent as unknown as { type: string; fn?: unknown }).type === 'FunctionNode' && (parent as unknown as { fn: unknown }).fn === n;
-				if (isFn) {
-					if (!FUNCS.has(nd.name!)) throw new SpecError(text, base + wordIndex(src, nd.name!), `unknown function "${nd.name}"; expected ${[...FUNCS].join(', ')}`);
-					return;
-				}
-				if (!registers.some((r) => r.name === nd.name)) throw new SpecError(text, base + wordIndex(src, nd.name!), `unknown register "${nd.name}" on the right side`);
-				reads.add(nd.name!);
-			} else if (nd.type === 'ConstantNode' && typeof nd.value !== 'bigint') {
-				throw new SpecError(text, base, `constant ${String(nd.value)} is not an integer; specs use integer arithmetic`);
-			} else if (!['OperatorNode', 'ParenthesisNode', 'FunctionNode', 'ConstantNode'].includes(nd.type)) {
-				throw new SpecError(text, base, `unsupported ${nd.type.replace('Node', '').toLowerCase()} in a spec`);
-			}
-		});
-	};
+	const check = (node: MathNode, base: number, src: string) => validateNode(text, node, base, src, registers, reads);
 	check(expr, rhsCol, rhs);
 	if (modulus) check(modulus, modCol, modText!);
 	return { text, out, outSize: outReg.size, expr, modulus, reads: [...reads] };
 }
+
+function validateNode(text: string, node: MathNode, base: number, src: string, registers: { name: string }[], reads: Set<string>): void {
+	node.traverse((n, _path, parent) => {
+		const nd = n as unknown as { type: string; name?: string; fn?: string | { name: string }; value?: unknown };
+		if (nd.type === 'SymbolNode') {
+			const isFn = parent && (parent as unknown as { type: string; fn?: unknown }).type === 'FunctionNode' && (parent as unknown as { fn: unknown }).fn === n;
+			if (isFn) {
+				if (!FUNCS.has(nd.name!)) throw new SpecError(text, base + wordIndex(src, nd.name!), `unknown function "${nd.name}"; expected ${[...FUNCS].join(', ')}`);
+				return;
+			}
+			if (!registers.some((r) => r.name === nd.name)) throw new SpecError(text, base + wordIndex(src, nd.name!), `unknown register "${nd.name}" on the right side`);
+			reads.add(nd.name!);
+		} else if (nd.type === 'ConstantNode' && typeof nd.value !== 'bigint' && typeof nd.value !== 'boolean') {
+			throw new SpecError(text, base, `constant ${String(nd.value)} is not an integer; specs use integer arithmetic`);
+		} else if (nd.type === 'ConstantNode' && typeof nd.value === 'boolean') {
+			// true / false read as 1 / 0
+		} else if (!['OperatorNode', 'ParenthesisNode', 'FunctionNode', 'ConstantNode', 'ConditionalNode'].includes(nd.type)) {
+			throw new SpecError(text, base, `unsupported ${nd.type.replace('Node', '').toLowerCase()} in a spec`);
+		}
+	});
+	}
 
 function wordIndex(src: string, word: string): number {
 	const m = new RegExp(`(^|[^A-Za-z0-9_])${word}(?![A-Za-z0-9_])`).exec(src);
@@ -118,9 +124,13 @@ export function evaluateNode(node: MathNode, values: Map<string, bigint>): bigin
 	const nd = node as unknown as { type: string; name?: string; fn?: string | { name: string }; value?: unknown; args?: MathNode[]; content?: MathNode };
 	switch (nd.type) {
 		case 'ConstantNode':
-			return nd.value as bigint;
+			return typeof nd.value === 'boolean' ? (nd.value ? 1n : 0n) : (nd.value as bigint);
 		case 'SymbolNode':
 			return values.get(nd.name!)!;
+		case 'ConditionalNode': {
+			const cn = node as unknown as { condition: MathNode; trueExpr: MathNode; falseExpr: MathNode };
+			return evaluateNode(cn.condition, values) !== 0n ? evaluateNode(cn.trueExpr, values) : evaluateNode(cn.falseExpr, values);
+		}
 		case 'ParenthesisNode':
 			return evaluateNode(nd.content!, values);
 		case 'OperatorNode': {
@@ -158,7 +168,10 @@ export function evaluateNode(node: MathNode, values: Map<string, bigint>): bigin
 					return a[0] | a[1];
 				case 'bitXor':
 					return a[0] ^ a[1];
-				// Comparisons and connectives (domain conditions): 1n for true, 0n for false.
+				case 'equal':
+					return a[0] === a[1] ? 1n : 0n;
+				case 'unequal':
+					return a[0] !== a[1] ? 1n : 0n;
 				case 'smaller':
 					return a[0] < a[1] ? 1n : 0n;
 				case 'smallerEq':
@@ -167,14 +180,12 @@ export function evaluateNode(node: MathNode, values: Map<string, bigint>): bigin
 					return a[0] > a[1] ? 1n : 0n;
 				case 'largerEq':
 					return a[0] >= a[1] ? 1n : 0n;
-				case 'equal':
-					return a[0] === a[1] ? 1n : 0n;
-				case 'unequal':
-					return a[0] !== a[1] ? 1n : 0n;
 				case 'and':
 					return a[0] !== 0n && a[1] !== 0n ? 1n : 0n;
 				case 'or':
 					return a[0] !== 0n || a[1] !== 0n ? 1n : 0n;
+				case 'xor':
+					return (a[0] !== 0n) !== (a[1] !== 0n) ? 1n : 0n;
 				case 'not':
 					return a[0] === 0n ? 1n : 0n;
 			}
@@ -203,7 +214,7 @@ export interface Condition {
 	reads: string[];
 }
 
-const COMPARISONS = new Set(['smaller', 'smallerEq', 'larger', 'largerEq', 'equal', 'unequal', 'and', 'or', 'not']);
+const COMPARISONS = new Set(['smaller', 'smallerEq', 'larger', 'largerEq', 'equal', 'unequal', 'and', 'or', 'xor', 'not']);
 
 /**
  * Parse a domain condition: a comparison (or `and`/`or`/`not` of comparisons) over register

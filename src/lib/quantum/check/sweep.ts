@@ -7,13 +7,19 @@
  * Qubit order: register value Σ bit_i·2^i, flat qubit = offset + index. Probabilities are floats
  * (exactly 0 or 1 when every qubit ends classical in the ledger).
  */
-import { applyLedgerGate, buildLedgerTables, createLedgerState, LedgerKind, ledgerToAmplitudes } from '../ledger.js';
+import { applyLedgerGate, buildLedgerTables, createLedgerState, LedgerKind, ledgerGlobalPhase, ledgerToAmplitudes } from '../ledger.js';
+import { addAngles, anglesEqual, floatTurns, formatTurns, reduceSigned, type Angle } from '../angle.js';
 import { applyLoweredGates, buildGateTables, AMPLITUDE_QUBIT_LIMITS } from '../amplitudes.js';
 import type { LoweredCircuit, PlacedRegister } from '../circuit.js';
 import { evaluateSpec, satisfiesConditions, type Condition, type Spec } from './spec.js';
 
 /** Which inputs to run: every basis input, a seeded random sample, or given values. */
-export type InputChoice = { mode: 'all' } | { mode: 'random'; count: number; seed: number } | { mode: 'given'; values: Map<string, bigint> } | { mode: 'auto'; sample: number; seed: number };
+export type InputChoice =
+	| { mode: 'all' }
+	| { mode: 'random'; count: number; seed: number }
+	| { mode: 'given'; values: Map<string, bigint> }
+	| { mode: 'list'; values: Map<string, bigint>[] }
+	| { mode: 'auto'; sample: number; seed: number };
 
 /** One input's outcome; values are decimal strings (registers may be wider than 53 bits). */
 export interface SweepCase {
@@ -22,6 +28,10 @@ export interface SweepCase {
 	got: Record<string, string>;
 	probability: number;
 	engine: 'ledger' | 'amplitudes';
+	/** Global phase of the output for this input (turns), on a phase failure. */
+	phase?: string;
+	/** Why it fails: the value, or (value right) a global phase different from the first input's. */
+	reason?: 'value' | 'phase';
 }
 
 /** Result of {@link sweepCircuit}. */
@@ -39,6 +49,8 @@ export interface SweepResult {
 	domain: string[];
 	/** Inputs drawn but outside the domain (skipped). */
 	outsideDomain: number;
+	/** The phase every passing input must share (that of the first one), unless phases are ignored. */
+	phaseReference: string | null;
 }
 
 /** Options of {@link sweepCircuit}. */
@@ -54,6 +66,12 @@ export interface SweepOptions {
 	domain?: Condition[];
 	/** Random sampling inside a domain tries at most this many inputs per wanted case (default 64). */
 	rejectionFactor?: number;
+	/** A uniform sampler of the domain (from its decision diagram); used instead of rejection when given. */
+	sampler?: (rand32: () => number) => Map<string, bigint> | null;
+	/** Compare values only (default: values and the global phase). */
+	ignorePhase?: boolean;
+	/** More input registers (beyond those the specs and conditions read). */
+	inputs?: string[];
 }
 
 /** A small seeded PRNG (splitmix32); 32-bit outputs. */
@@ -83,7 +101,7 @@ export const SUCCESS_TOLERANCE = 1e-9;
  */
 export function sweepCircuit(c: LoweredCircuit, specs: Spec[], options: SweepOptions): SweepResult {
 	const domain = options.domain ?? [];
-	const inputNames = [...new Set([...specs.flatMap((s) => s.reads), ...domain.flatMap((d) => d.reads)])];
+	const inputNames = [...new Set([...specs.flatMap((s) => s.reads), ...domain.flatMap((d) => d.reads), ...(options.inputs ?? [])])];
 	const inputs = c.registers.filter((r) => inputNames.includes(r.name));
 	const bits = inputs.reduce((s, r) => s + r.size, 0);
 	const keep = options.keepFailures ?? 20;
@@ -91,7 +109,8 @@ export function sweepCircuit(c: LoweredCircuit, specs: Spec[], options: SweepOpt
 	const lt = buildLedgerTables(c);
 	let gt: ReturnType<typeof buildGateTables> | null = null;
 	const specByOut = new Map(specs.map((s) => [s.out, s]));
-	const result: SweepResult = { cases: 0, failed: 0, exhaustive: false, worstSuccessProbability: 1, worstInput: null, failures: [], engines: { ledger: 0, amplitudes: 0 }, inputRegisters: inputs.map((r) => r.name), inputBits: bits, domain: domain.map((d) => d.text), outsideDomain: 0 };
+	const result: SweepResult = { cases: 0, failed: 0, exhaustive: false, worstSuccessProbability: 1, worstInput: null, failures: [], engines: { ledger: 0, amplitudes: 0 }, inputRegisters: inputs.map((r) => r.name), inputBits: bits, domain: domain.map((d) => d.text), outsideDomain: 0, phaseReference: null };
+	let reference: Angle | null = null;
 
 	let choice = options.choice;
 	if (choice.mode === 'auto') choice = bits <= (options.exhaustiveBits ?? 16) ? { mode: 'all' } : { mode: 'random', count: choice.sample, seed: choice.seed };
@@ -103,6 +122,14 @@ export function sweepCircuit(c: LoweredCircuit, specs: Spec[], options: SweepOpt
 		next = () => {
 			const m = new Map<string, bigint>();
 			for (const r of c.registers) m.set(r.name, given.get(r.name) ?? 0n);
+			return m;
+		};
+	} else if (choice.mode === 'list') {
+		const list = choice.values;
+		total = list.length;
+		next = (i) => {
+			const m = new Map<string, bigint>();
+			for (const r of c.registers) m.set(r.name, list[i].get(r.name) ?? 0n);
 			return m;
 		};
 	} else if (choice.mode === 'all') {
@@ -127,7 +154,15 @@ export function sweepCircuit(c: LoweredCircuit, specs: Spec[], options: SweepOpt
 		total = choice.count;
 		// Rejection sampling inside the domain, bounded by tries (work), not by luck.
 		let budget = total * (options.rejectionFactor ?? 64);
+		const sampler = domain.length ? options.sampler : undefined;
 		next = () => {
+			if (sampler) {
+				const drawn = sampler(rng);
+				if (!drawn) throw new RangeError(`the domain (${domain.map((d) => d.text).join(' and ')}) holds no input`);
+				const m = new Map<string, bigint>();
+				for (const r of c.registers) m.set(r.name, inputNames.includes(r.name) ? drawn.get(r.name) ?? 0n : 0n);
+				return m;
+			}
 			for (;;) {
 				const m = new Map<string, bigint>();
 				for (const r of c.registers) m.set(r.name, inputNames.includes(r.name) ? randomBits(rng, r.size) : 0n);
@@ -158,12 +193,19 @@ export function sweepCircuit(c: LoweredCircuit, specs: Spec[], options: SweepOpt
 		let probability: number;
 		const got = new Map<string, bigint>();
 		let engine: SweepCase['engine'] = 'ledger';
+		let phase: Angle | null = null;
 		if (g === c.gateCount) {
 			probability = 1;
+			phase = ledgerGlobalPhase(ls, lt);
 			for (let q = 0; q < c.qubitCount; q++) {
 				const p1 = ls.kind[q] === LedgerKind.classical ? ls.bit[q] : ls.kind[q] === LedgerKind.fourier ? 0.5 : ls.amp[4 * q + 2] ** 2 + ls.amp[4 * q + 3] ** 2;
 				probability *= expBits[q] ? p1 : 1 - p1;
 				bitsArr[q] = p1 > 0.5 ? 1 : 0;
+				if (ls.kind[q] === LedgerKind.pure) {
+					// the phase of the amplitude of the expected bit of a general single-qubit state
+					const o = 4 * q + (expBits[q] ? 2 : 0);
+					phase = addAngles(phase, floatTurns(Math.atan2(ls.amp[o + 1], ls.amp[o]) / (2 * Math.PI)));
+				}
 			}
 			readBits(c.registers, bitsArr, got);
 			result.engines.ledger++;
@@ -177,6 +219,7 @@ export function sweepCircuit(c: LoweredCircuit, specs: Spec[], options: SweepOpt
 			for (let q = 0; q < c.qubitCount; q++) if (expBits[q]) want += 2 ** q;
 			const d = sv.data;
 			probability = d[2 * want] ** 2 + d[2 * want + 1] ** 2;
+			if (probability > SUCCESS_TOLERANCE) phase = floatTurns(Math.atan2(d[2 * want + 1], d[2 * want]) / (2 * Math.PI));
 			let best = 0;
 			let bestP = -1;
 			for (let k = 0; k < d.length / 2; k++) {
@@ -195,10 +238,17 @@ export function sweepCircuit(c: LoweredCircuit, specs: Spec[], options: SweepOpt
 			if (probability < result.worstSuccessProbability) result.worstSuccessProbability = probability;
 			if (result.worstInput === null || probability <= result.worstSuccessProbability) result.worstInput = show(values, inputNames);
 		}
-		if (probability < 1 - SUCCESS_TOLERANCE) {
+		let reason: SweepCase['reason'] | null = probability < 1 - SUCCESS_TOLERANCE ? 'value' : null;
+		if (!reason && !options.ignorePhase && phase) {
+			if (!reference) {
+				reference = phase;
+				result.phaseReference = formatTurns(reduceSigned(phase));
+			} else if (!anglesEqual(phase, reference, 1e-9)) reason = 'phase';
+		}
+		if (reason) {
 			result.failed++;
 			if (result.failures.length < keep)
-				result.failures.push({ input: show(values, inputNames), expected: show(expected, null), got: show(got, null), probability, engine });
+				result.failures.push({ input: show(values, inputNames), expected: show(expected, null), got: show(got, null), probability, engine, reason, ...(reason === 'phase' && phase ? { phase: formatTurns(reduceSigned(phase)) } : {}) });
 		}
 		if (options.onProgress && (i & 255) === 255) options.onProgress(i + 1, total);
 	}

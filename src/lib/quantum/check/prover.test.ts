@@ -1,0 +1,160 @@
+/**
+ * The general prover on whole arithmetic circuits, each verdict cross-checked against an
+ * exhaustive sweep (exact ledger engine) in the same test where the inputs are few.
+ * Circuits: Cuccaro, Draper, Kutin, Moulton 2004 (quant-ph/0410184) ripple-carry adder;
+ * Beauregard 2003 (quant-ph/0205095) doubly controlled modular adder (Fig. 5) and controlled
+ * modular multiplier (Fig. 6); Draper 2000 (quant-ph/0008033) Fourier adder.
+ */
+import { describe, expect, it } from 'vitest';
+import { lowerCircuit } from '../lower.js';
+import { importQasm } from '../qasm/import.js';
+import type { CircuitDocument } from '../circuit.js';
+import { beauregardCMult, beauregardModAdder, cuccaroAdder, fourierAdderQasm } from '../testing/arith.js';
+import { checkCircuit, type CheckOptions, type CheckReport } from './index.js';
+
+const check = (d: CircuitDocument, options: CheckOptions = {}) => checkCircuit(lowerCircuit(d), d.specs!, { assume: d.assume, ...options });
+/** The proof's verdict must agree with the exhaustive sweep run beside it. */
+function agrees(r: CheckReport) {
+	expect(r.exhaustive).toBe(true);
+	expect(r.proof.status === 'proved').toBe(r.failed === 0);
+	expect(r.proof.status === 'refuted').toBe(r.failed > 0);
+}
+/** A refutation's counterexample must be among the inputs the sweep finds failing (the engines confirm it). */
+function confirmed(r: CheckReport) {
+	expect(r.proof.counterexample).not.toBeNull();
+	const rerun = checkCircuitFromReport(r);
+	expect(rerun).toBe(true);
+}
+let lastDoc: CircuitDocument | null = null;
+const checkCircuitFromReport = (r: CheckReport) => {
+	const d = lastDoc!;
+	const x = checkCircuit(lowerCircuit(d), d.specs!, { assume: d.assume, proof: false, inputs: { mode: 'given', values: new Map(Object.entries(r.proof.counterexample!).map(([k, v]) => [k, BigInt(v)])) } });
+	return x.failed === 1 || (r.proof.counterexamplePartner !== null);
+};
+const run = (d: CircuitDocument, options: CheckOptions = {}) => {
+	lastDoc = d;
+	return check(d, options);
+};
+
+describe('Cuccaro ripple-carry adder (quant-ph/0410184, MAJ/UMA)', () => {
+	it('5 bits: proved for all 1024 inputs, values and carry-out `z = (a + b) >> 5`, ancilla clean', () => {
+		const r = run(cuccaroAdder(5));
+		agrees(r);
+		expect([r.ok, r.proof.status, r.proof.prover]).toEqual([true, 'proved', 'symbolic']);
+		expect(r.proof.summary).toMatch(/^Proved: right for every one of the 1024 inputs/);
+	});
+	it('5 bits with one uncomputation CNOT reversed: refuted, the dirty ancilla named with an input the engines confirm', () => {
+		const r = run(cuccaroAdder(5, 'uncompute-cnot-reversed'));
+		agrees(r);
+		expect(r.proof.status).toBe('refuted');
+		confirmed(r);
+		const anc = r.proof.bitMismatches.find((m) => m.qubit === 'c[0]')!;
+		expect(anc.expected).toMatch(/must come back clean/);
+		expect(anc.holds).toBe('a[2]'); // the reversed CNOT (UMA at i = 2) copies a[2] into c: derived by hand from the construction
+		expect(anc.lines.length).toBeGreaterThan(0);
+	});
+	for (const n of [20, 64])
+		it(`${n} bits: proved, and refuted with the CNOT reversed (sample swept beside)`, () => {
+			const ok = run(cuccaroAdder(n), { inputs: { mode: 'random', count: 30, seed: 3 } });
+			expect([ok.ok, ok.proof.status]).toEqual([true, 'proved']);
+			const bad = run(cuccaroAdder(n, 'uncompute-cnot-reversed'), { inputs: { mode: 'random', count: 30, seed: 3 } });
+			expect(bad.proof.status).toBe('refuted');
+			confirmed(bad);
+			expect(bad.ok).toBe(false);
+		});
+	it('a node limit too small leaves it undecided, saying which limit stopped it', () => {
+		const r = run(cuccaroAdder(20), { inputs: { mode: 'random', count: 5, seed: 1 }, proofLimits: { maxNodes: 200 } });
+		expect(r.proof.status).toBe('undecided');
+		expect(r.proof.limit).toBe('nodes');
+		expect(r.proof.reason).toMatch(/limit of 200 nodes at gate \d+ of 121/);
+		expect(r.proof.summary).toMatch(/^Undecided: .*within its limit/);
+	});
+});
+
+describe('Beauregard doubly controlled modular adder (quant-ph/0205095, Fig. 5), n = 5, N = 21, a = 8', () => {
+	it('right: proved on the domain b < 21 (84 inputs), equal to the exhaustive sweep of that domain', () => {
+		const r = run(beauregardModAdder(5, 21n, 8n));
+		agrees(r);
+		expect(r.domain).toEqual({ conditions: ['b < 21'], count: '84', total: '256' }); // 4 values of c × 21 of b
+		expect(r.cases).toBe(84);
+		expect([r.ok, r.proof.status]).toEqual([true, 'proved']);
+	});
+	for (const fault of ['no-add-back', 'wrong-bit', 'ancilla-dirty'] as const)
+		it(`${fault}: refuted with a confirmed input`, () => {
+			const r = run(beauregardModAdder(5, 21n, 8n, fault));
+			agrees(r);
+			expect(r.proof.status).toBe('refuted');
+			confirmed(r);
+			if (fault === 'ancilla-dirty') expect(r.proof.bitMismatches.map((m) => m.qubit)).toEqual(['anc[0]']);
+			else expect(r.proof.bitMismatches.some((m) => m.register === 'b')).toBe(true);
+		});
+	it('outside the domain it is wrong: without `b < 21` the proof refutes it at some b ≥ 21', () => {
+		const d = beauregardModAdder(5, 21n, 8n);
+		const r = run({ ...d, assume: [] });
+		expect(r.proof.status).toBe('refuted');
+		expect(BigInt(r.proof.counterexample!.b)).toBeGreaterThanOrEqual(21n);
+	});
+});
+
+describe('Beauregard controlled modular multiplier (Fig. 6), n = 5, N = 21, a = 4', () => {
+	it('right: proved on b < 21 (1344 inputs), equal to the exhaustive sweep', () => {
+		const r = run(beauregardCMult(5, 21n, 4n));
+		agrees(r);
+		expect(r.domain.count).toBe('1344'); // 2 × 32 × 21
+		expect([r.ok, r.proof.status]).toEqual([true, 'proved']);
+	});
+	it('one constant not reduced mod N (32 instead of 11): refuted with a confirmed input', () => {
+		const r = run(beauregardCMult(5, 21n, 4n, 'unreduced-constant'));
+		agrees(r);
+		expect(r.proof.status).toBe('refuted');
+		confirmed(r);
+	});
+});
+
+describe('phases are part of the spec (issue 13)', () => {
+	const adder = (rotation: 'cp' | 'crz') => lowerCircuit(importQasm(fourierAdderQasm(4, rotation)).document);
+	it('a 4-bit Fourier adder with cp is proved, values and phase', () => {
+		const r = checkCircuit(adder('cp'), ['b = a + b mod 16']);
+		agrees(r);
+		expect([r.proof.status, r.phases]).toEqual(['proved', 'checked']);
+	});
+	it('written with crz it fails on its phase, the term named: crz(θ) = cp(θ)·p(−θ/2) on the control', () => {
+		// qelib1.inc: crz(λ) = rz(λ/2) t; cx; rz(−λ/2) t; cx = diag(1, 1, e^{−iλ/2}, e^{iλ/2}); the importer's test checks this against mathjs.
+		// a[k] controls the rotations π/2^(j−k) for j = k..3, so its phase is −½·Σ_{d=0}^{3−k} 1/2^(d+1) turn (by hand):
+		// a[0]: −½·(1/2 + 1/4 + 1/8 + 1/16) = −15/32 turn; a[3]: −½·½ = −1/4 turn.
+		const r = checkCircuit(adder('crz'), ['b = a + b mod 16']);
+		agrees(r);
+		expect(r.proof.status).toBe('refuted');
+		expect(r.failures.every((f) => f.reason === 'phase')).toBe(true);
+		const terms = Object.fromEntries(r.wrongTerms.filter((w) => w.where === 'phase').map((w) => [w.term, w.differenceTurns]));
+		expect(terms).toEqual({ 'a[0]': '-15/32 turn', 'a[1]': '-7/16 turn', 'a[2]': '-3/8 turn', 'a[3]': '-1/4 turn' });
+		expect(r.proof.counterexample).not.toBeNull();
+		expect(r.proof.counterexamplePartner).not.toBeNull();
+	});
+	it('with --ignore-phase the crz adder passes (values only)', () => {
+		const r = checkCircuit(adder('crz'), ['b = a + b mod 16'], { ignorePhase: true });
+		agrees(r);
+		expect([r.ok, r.proof.status, r.phases]).toEqual([true, 'proved', 'ignored']);
+	});
+	it('the general prover names the same phase terms when the Fourier form does not apply (a domain)', () => {
+		const r = checkCircuit(adder('crz'), ['b = a + b mod 16'], { assume: ['a < 16'] });
+		expect(r.proof.prover).toBe('symbolic');
+		expect(r.proof.status).toBe('refuted');
+		expect(Object.fromEntries(r.proof.phaseTerms.map((t) => [t.term, t.turns]))).toEqual({ 'a[0]': '-15/32 turn', 'a[1]': '-7/16 turn', 'a[2]': '-3/8 turn', 'a[3]': '-1/4 turn' });
+		expect(r.proof.phaseTerms[0].lines.length).toBeGreaterThan(0);
+	});
+	it('a constant global phase passes: an X then a p(π) on an ancilla-free classical qubit that is 1 for every input', () => {
+		const d: CircuitDocument = {
+			format: 'orrery.circuit', version: 1, title: 't',
+			registers: [{ name: 'a', size: 2 }, { name: 'k', size: 1 }],
+			body: [
+				{ id: 'x', type: 'gate', gate: 'x', qubits: [{ register: 'k', index: 0 }] },
+				{ id: 'p', type: 'gate', gate: 'p', qubits: [{ register: 'k', index: 0 }], angle: 'pi/4' },
+				{ id: 'x2', type: 'gate', gate: 'x', qubits: [{ register: 'k', index: 0 }] }
+			]
+		};
+		const r = checkCircuit(lowerCircuit(d), ['a = a']);
+		agrees(r);
+		expect(r.proof.status).toBe('proved');
+	});
+});
