@@ -9,7 +9,7 @@ import type { LoweredCircuit, PlacedRegister } from '../circuit.js';
 import { parseSpec, parseCondition, specPolynomial, evaluateSpec, type Condition, type IntPoly, type Spec } from './spec.js';
 import { proveCircuit, type ProofResult, type WrongTerm } from './proof.js';
 import { sweepCircuit, type InputChoice, type SweepCase, type SweepResult } from './sweep.js';
-import { symbolicProve, inputOrder, inputWords, assignmentValues, DEFAULT_SYMBOLIC_LIMITS, type BitMismatch, type PhaseTerm, type SymbolicLimits, type SymbolicResult } from './symbolic.js';
+import { symbolicProve, inputOrder, inputWords, assignmentValues, type BitMismatch, type PhaseTerm, type SymbolicLimits, type SymbolicResult } from './symbolic.js';
 import { Bdd, BddLimit, TRUE, WordOps, WordUnsupported } from './bdd.js';
 import { compileNode } from './spec-words.js';
 import { findSuspects, type Suspect } from './suspects.js';
@@ -135,7 +135,7 @@ function buildDomain(c: LoweredCircuit, conditions: Condition[], inputNames: str
 		for (const x of conditions) dom = bdd.and(dom, ops.truthy(compileNode(x.expr, env, ops)));
 	} catch (e) {
 		if (!(e instanceof BddLimit || e instanceof WordUnsupported)) throw e;
-		throw new RangeError(`the domain ${conditions.map((x) => `"${x.text}"`).join(' and ')} cannot be built: ${e.message}`);
+		throw new RangeError(`the domain ${conditions.map((x) => `"${x.text}"`).join(' and ')} cannot be built: ${e.message}`, { cause: e });
 	}
 	const memo = new Map<number, bigint>();
 	const count = bdd.satCount(dom, memo);

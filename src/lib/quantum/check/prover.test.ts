@@ -75,7 +75,7 @@ describe('Beauregard doubly controlled modular adder (quant-ph/0205095, Fig. 5),
 	it('right: proved on the domain b < 21 (84 inputs), equal to the exhaustive sweep of that domain', () => {
 		const r = run(beauregardModAdder(5, 21n, 8n));
 		agrees(r);
-		expect(r.domain).toEqual({ conditions: ['b < 21'], count: '84', total: '256' }); // 4 values of c × 21 of b
+		expect(r.domain).toEqual({ conditions: ['b < 21'], inputs: 84, count: '84', total: '256' }); // 4 values of c × 21 of b
 		expect(r.cases).toBe(84);
 		expect([r.ok, r.proof.status]).toEqual([true, 'proved']);
 	});
