@@ -32,7 +32,11 @@ export class CircuitEditor {
 	baseVersion = $state(0);
 	selectedId = $state<string | null>(null);
 	dirty = $state(false);
+	/** A field holds text not yet in the document (e.g. a spec line that does not parse). */
+	draft = $state(false);
 	#undo: string[] = [];
+	/** Key of the last change when consecutive changes of one field merge into one undo step. */
+	#mergeKey: string | null = null;
 	#redo: string[] = [];
 	undoCount = $state(0);
 	redoCount = $state(0);
@@ -48,11 +52,17 @@ export class CircuitEditor {
 		return this.doc.body.find((b) => b.id === this.selectedId);
 	}
 
-	/** Apply a change as one undo step. */
-	change(fn: (doc: CircuitDocument) => void): void {
+	/**
+	 * Apply a change as one undo step. Changes with the same `merge` key in a row (typing in one
+	 * field) make a single step.
+	 */
+	change(fn: (doc: CircuitDocument) => void, merge: string | null = null): void {
 		if (this.readOnly) return;
-		this.#undo.push(JSON.stringify($state.snapshot(this.doc)));
-		if (this.#undo.length > MAX_UNDO) this.#undo.shift();
+		if (merge === null || merge !== this.#mergeKey || !this.#undo.length) {
+			this.#undo.push(JSON.stringify($state.snapshot(this.doc)));
+			if (this.#undo.length > MAX_UNDO) this.#undo.shift();
+		}
+		this.#mergeKey = merge;
 		this.#redo = [];
 		fn(this.doc);
 		this.#sync();
@@ -60,6 +70,7 @@ export class CircuitEditor {
 	}
 
 	undo(): void {
+		this.#mergeKey = null;
 		const prev = this.#undo.pop();
 		if (prev === undefined) return;
 		this.#redo.push(JSON.stringify($state.snapshot(this.doc)));
@@ -203,5 +214,12 @@ export class CircuitEditor {
 	markSaved(version: number): void {
 		this.baseVersion = version;
 		this.dirty = false;
+		this.#mergeKey = null;
+	}
+
+	/** Forget that there are unsaved edits (they were saved elsewhere, e.g. as a copy). */
+	markClean(): void {
+		this.dirty = false;
+		this.draft = false;
 	}
 }

@@ -21,14 +21,18 @@ export class DebugSession {
 	busy = $state<string | null>(null);
 	message = $state<{ text: string; error: boolean } | null>(null);
 
+	/** The saved version everything made here attaches to; follows the workbench's saves. */
+	version = $state(0);
+
 	constructor(
 		readonly slug: string,
 		readonly circuit: { id: string; title: string },
-		readonly version: number,
+		version: number,
 		saved: SavedBreakpointView[],
 		/** On a replay the trace already exists. */
 		fixedTrace: { id: string } | null = null
 	) {
+		this.version = version;
 		this.saved = saved;
 		if (fixedTrace) this.trace = { id: fixedTrace.id, key: '*' };
 		this.fixed = fixedTrace !== null;
@@ -45,6 +49,19 @@ export class DebugSession {
 
 	isSaved(b: BreakpointSpec): boolean {
 		return this.saved.some((s) => s.id === b.id) || b.id in this.savedFrom;
+	}
+
+	/**
+	 * The workbench saved a new version: traces, breakpoints and reports made from now on belong
+	 * to it, and the team's breakpoints shown are that version's.
+	 */
+	async followVersion(version: number): Promise<void> {
+		if (this.fixed || version === this.version) return;
+		this.version = version;
+		this.trace = null;
+		this.savedFrom = {};
+		this.saved = [];
+		await this.reload();
 	}
 
 	async reload(): Promise<void> {

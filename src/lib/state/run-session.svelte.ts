@@ -40,7 +40,8 @@ export class RunSession {
 		this.loading = true;
 		this.error = null;
 		try {
-			const res = await this.#c().request({ type: 'load', doc, inputs });
+			// Plain copies: postMessage cannot clone Svelte's reactive proxies.
+			const res = await this.#c().request({ type: 'load', doc: $state.snapshot(doc) as CircuitDocument, inputs: $state.snapshot(inputs) as RunRequestInputs });
 			if (seq !== this.#loadSeq) return;
 			if (res.type === 'error') {
 				this.error = { message: res.message, path: res.path };
@@ -90,7 +91,7 @@ export class RunSession {
 
 	async seek(kind: SeekKind, breakpoints: BreakpointSpec[] = []): Promise<void> {
 		if (!this.summary) return;
-		const res = await this.#c().request({ type: 'seek', from: this.step, kind, breakpoints });
+		const res = await this.#c().request({ type: 'seek', from: this.step, kind, breakpoints: $state.snapshot(breakpoints) as BreakpointSpec[] });
 		if (res.type !== 'seek') return;
 		this.lastSeekReason = res.reason;
 		this.lastBreakpointId = res.breakpointId;

@@ -31,7 +31,14 @@ export class EngineClient {
 		const id = this.#next++;
 		return new Promise((resolve, reject) => {
 			this.#pending.set(id, { resolve, reject, progress });
-			this.#worker!.postMessage({ ...body, id } as WorkerRequest);
+			try {
+				this.#worker!.postMessage({ ...body, id } as WorkerRequest);
+			} catch (e) {
+				// A message that cannot be cloned (a reactive proxy, a function) must fail loudly here,
+				// not leave the caller waiting.
+				this.#pending.delete(id);
+				reject(e instanceof Error ? e : new Error(String(e)));
+			}
 		});
 	}
 
