@@ -105,7 +105,11 @@ describe('bin/orrery.js', () => {
 		const r = spawnSync(process.execPath, [bin, 'check', `${fixtures}adder3.qasm`, '--spec', 'b = a + b mod 8', '--json'], { encoding: 'utf8' });
 		expect(r.status).toBe(0);
 		expect(JSON.parse(r.stdout).ok).toBe(true);
-	}, 60_000);
+		// It ran the esbuild bundle, which lists its sources for the staleness check.
+		const inputs = JSON.parse(readFileSync(fileURLToPath(new URL('../../node_modules/.cache/orrery-cli/orrery.mjs.inputs.json', import.meta.url)), 'utf8'));
+		expect(inputs).toContain('src/cli/orrery.ts');
+		expect(inputs).toContain('src/lib/quantum/qasm/import.ts');
+	}, 120_000);
 });
 
 describe('orrery equiv', () => {

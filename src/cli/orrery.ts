@@ -2,11 +2,11 @@
  * Orrery command line: check, run, count and convert circuits (OpenQASM 2/3 or the JSON
  * document). Thin: reading files and printing; the work is in src/lib/quantum.
  * Exit codes: 0 every input checked meets every spec; 1 some do not; 2 unusable file or arguments.
+ * Run through bin/orrery.js (an esbuild bundle of src/cli/entry.ts, rebuilt when stale), or
+ * `npx tsx src/cli/entry.ts` while working on it.
  */
 import { readFileSync, writeFileSync } from 'node:fs';
-import { pathToFileURL } from 'node:url';
 import { exportQasm } from '../lib/quantum/qasm/export.js';
-import { runPush } from './push.js';
 import { CliError as UsageError, FILE_OPTIONS, loadCircuitFile, parseArgs as parseCliArgs, readOptionsFrom, type Args, type ReadOptions } from './files.js';
 import { circuitUnitary, restrictToCleanAncillas, unitaryDistance } from '../lib/quantum/check/equivalence.js';
 import { QasmError } from '../lib/quantum/qasm/lexer.js';
@@ -231,11 +231,4 @@ export function main(argv: string[], io: Io = nodeIo): number {
 		io.err(msg);
 		return 2;
 	}
-}
-
-if (import.meta.url === pathToFileURL(process.argv[1] ?? '').href) {
-	const argv = process.argv.slice(2);
-	// push talks to a server, so it is the one asynchronous command.
-	if (argv[0] === 'push') void runPush(argv.slice(1)).then((code) => (process.exitCode = code));
-	else process.exitCode = main(argv);
 }

@@ -406,6 +406,10 @@ function evaluateFloat(node: MathNode, scope: AngleScope, expr: string): number 
  * stored float in turns, anything else is a radian expression. Result in turns.
  */
 export function parseAngle(text: string, scope: AngleScope = {}): Angle {
+	// Fast path for the form the importer and the editor write (`5/2^7 turn`, `0 turn`): no parser.
+	const fast = /^(-?\d{1,300})\/2\^(\d{1,4}) turns?$/.exec(text);
+	if (fast && Number(fast[2]) <= MAX_ANGLE_EXP) return dyadic(BigInt(fast[1]), Number(fast[2]));
+	if (text === '0 turn') return ZERO_ANGLE;
 	const t = text.trim();
 	if (t.startsWith('~')) {
 		const v = Number(t.slice(1));

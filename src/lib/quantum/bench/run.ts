@@ -12,6 +12,7 @@ import { applyLedgerGate, buildLedgerTables, createContributionLog, createLedger
 import { Run } from '../run.js';
 import type { CcpLowering, CircuitDocument } from '../circuit.js';
 import { checkBenches } from './check-benches.js';
+import { measureImport } from './import-bench.js';
 
 interface Figure {
 	name: string;
@@ -181,6 +182,20 @@ for (const lowering of ['native', 'no-ancilla'] as const) {
 
 // The checker's benches (proofs of 32- and 64-bit multipliers, sweep throughput, import).
 benches.push(...checkBenches);
+
+// The OpenQASM importer on a 200 000-gate exporter-style file, against splitting the same text
+// into lines (the least any reader must do). Target: ≥ 1 000 000 gates/s.
+benches.push({
+	name: 'qasm-import-exporter-style',
+	run: () => {
+		const gates = 200_000;
+		const m = measureImport(gates);
+		return [
+			{ name: `qasm import, ${gates} gates (ns per gate)`, value: (m.importMs * 1e6) / gates, unit: 'ns', baseline: { name: 'split into lines (ns per line)', value: (m.splitMs * 1e6) / gates } },
+			{ name: 'qasm import throughput', value: m.gatesPerSecond, unit: 'gates/s' }
+		];
+	}
+});
 
 const filter = (globalThis as { process?: { argv?: string[] } }).process?.argv?.[2];
 for (const b of benches) {

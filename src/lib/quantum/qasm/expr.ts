@@ -137,6 +137,10 @@ interface ExprSite {
  */
 export function evaluateTokens(tokens: Token[], scope: NumScope, file: string, warn?: (t: Token, message: string) => void, version = 2): Num {
 	if (tokens.length === 0) throw new RangeError('empty expression');
+	// Most expressions in exported files are numbers, π over powers of two and parameters: read
+	// them directly. Anything else (functions, %, ^, errors) goes through mathjs below.
+	const quick = quickEvaluate(tokens, scope);
+	if (quick) return quick;
 	const parts: string[] = [];
 	const aliases = new Map<string, Num>();
 	let prevOperand = false;
@@ -187,6 +191,90 @@ export function evaluateTokens(tokens: Token[], scope: NumScope, file: string, w
 	}
 	const v = walk(node, aliases, site);
 	if (!v.exact && !Number.isFinite(v.v)) throw new QasmError(site.line, site.column, 'expression does not evaluate to a finite number', file);
+	return v;
+}
+
+/** Decimal literal text → exact rational (as the mathjs walker reads a ConstantNode). */
+function decimalNum(text: string): Num | null {
+	const m = /^(\d*)\.?(\d*)(?:[eE]([+-]?\d+))?$/.exec(text);
+	if (!m) return null;
+	const digits = (m[1] || '0') + (m[2] || '');
+	const e = (m[3] ? parseInt(m[3], 10) : 0) - (m[2] || '').length;
+	if (Math.abs(e) >= 400) return null;
+	return e >= 0 ? exactNum(BigInt(digits) * 10n ** BigInt(e)) : exactNum(BigInt(digits), 10n ** BigInt(-e));
+}
+
+/**
+ * Recursive descent over + − * / ** unary ± and parentheses, with numbers, pi/π, tau/τ and scope
+ * names; the same values as the mathjs path. Null when the expression needs more (then the caller
+ * takes the mathjs path, which also words every error).
+ */
+function quickEvaluate(tokens: Token[], scope: NumScope): Num | null {
+	let i = 0;
+	const n = tokens.length;
+	const isP = (t: Token | undefined, x: string) => t !== undefined && t.kind === 'punct' && t.text === x;
+	const expr = (): Num | null => {
+		let a = term();
+		while (a && i < n && (isP(tokens[i], '+') || isP(tokens[i], '-'))) {
+			const sign = tokens[i++].text === '+' ? 1n : -1n;
+			const b = term();
+			if (!b) return null;
+			a = add(a, b, sign);
+		}
+		return a;
+	};
+	const term = (): Num | null => {
+		let a = unary();
+		while (a && i < n && (isP(tokens[i], '*') || isP(tokens[i], '/'))) {
+			const op = tokens[i++].text;
+			const b = unary();
+			if (!b) return null;
+			a = op === '*' ? mul(a, b) : div(a, b);
+		}
+		return a;
+	};
+	const unary = (): Num | null => {
+		if (isP(tokens[i], '-')) {
+			i++;
+			const a = unary();
+			return a && mul(exactNum(-1n), a);
+		}
+		if (isP(tokens[i], '+')) {
+			i++;
+			return unary();
+		}
+		const base = atom();
+		if (base && isP(tokens[i], '**')) {
+			i++;
+			const e = unary();
+			return e && pow(base, e);
+		}
+		return base;
+	};
+	const atom = (): Num | null => {
+		const t = tokens[i++];
+		if (!t) return null;
+		if (t.kind === 'int') return exactNum(BigInt(t.text));
+		if (t.kind === 'float') return decimalNum(t.text);
+		if (t.kind === 'ident') {
+			if (isP(tokens[i], '(')) return null;
+			const v = scope.get(t.text);
+			if (v) return v;
+			if (t.text === 'pi' || t.text === 'π') return exactNum(1n, 1n, 1);
+			if (t.text === 'tau' || t.text === 'τ') return exactNum(2n, 1n, 1);
+			return null;
+		}
+		if (isP(t, '(')) {
+			const v = expr();
+			if (!v || !isP(tokens[i], ')')) return null;
+			i++;
+			return v;
+		}
+		return null;
+	};
+	const v = expr();
+	if (!v || i !== n) return null;
+	if (!v.exact && !Number.isFinite(v.v)) return null;
 	return v;
 }
 

@@ -265,6 +265,7 @@ class Reader {
 	exactDecimals = true;
 	readonly decimals: PrintedAngleStats = { exact: 0, largestDifferenceRadians: 0, inexact: 0 };
 	private readonly decimalSeen = new Set<number>();
+	private readonly printedCache = new Map<string, ReturnType<typeof readPrintedAngle>>();
 
 	constructor(
 		private readonly tokens: Token[],
@@ -342,7 +343,13 @@ class Reader {
 		if (lit && lit.kind === 'float') {
 			const fresh = !this.decimalSeen.has(lit.start);
 			if (fresh) this.decimalSeen.add(lit.start);
-			const p = this.exactDecimals ? readPrintedAngle(lit.text, signed && tokens[0].text === '-') : null;
+			const negative = signed && tokens[0].text === '-';
+			const key = negative ? '-' + lit.text : lit.text;
+			let p = this.exactDecimals ? this.printedCache.get(key) : null;
+			if (p === undefined) {
+				p = readPrintedAngle(lit.text, negative);
+				if (this.printedCache.size < 100_000) this.printedCache.set(key, p);
+			}
 			if (fresh) {
 				if (p) {
 					this.decimals.exact++;
@@ -436,6 +443,12 @@ class Reader {
 
 	/** Flat qubits a qubit argument names (a register, an alias, indexed by an index set). */
 	private qubitsOf(q: { name: string; index: Token[] | null; tok: Token }): number[] {
+		// Fast path: reg[int literal] (most gate arguments in exported files).
+		if (q.index && q.index.length === 1 && q.index[0].kind === 'int' && this.aliases.size === 0) {
+			const r = this.regByName.get(q.name);
+			const i = Number(q.index[0].text);
+			if (r && i < r.size) return [r.offset + i];
+		}
 		const alias = this.aliases.get(q.name);
 		let base: number[];
 		let label: string;

@@ -35,84 +35,119 @@ export class QasmError extends Error {
 
 // Longest first, so `**` wins over `*` and `->` over `-`.
 const PUNCT = ['**', '->', '==', '!=', '<=', '>=', '<<', '>>', '&&', '||', '++', '+=', '-=', '*=', '/=', ';', ',', '(', ')', '[', ']', '{', '}', '@', ':', '+', '-', '*', '/', '^', '%', '<', '>', '=', '!', '~', '&', '|', '.'];
+const PUNCT_BY_FIRST = new Map<number, string[]>();
+for (const p of PUNCT) {
+	const c = p.charCodeAt(0);
+	if (!PUNCT_BY_FIRST.has(c)) PUNCT_BY_FIRST.set(c, []);
+	PUNCT_BY_FIRST.get(c)!.push(p);
+}
 
-const isIdentStart = (ch: string) => /[A-Za-z_\u0370-\u03ff\u2107]/.test(ch);
-const isIdentPart = (ch: string) => /[A-Za-z0-9_\u0370-\u03ff\u2107]/.test(ch);
+// A-Z a-z _ Greek (U+0370–U+03FF) ℇ (U+2107); digits continue an identifier.
+const isIdentStartCode = (c: number) => (c >= 97 && c <= 122) || (c >= 65 && c <= 90) || c === 95 || (c >= 0x370 && c <= 0x3ff) || c === 0x2107;
+const isDigit = (c: number) => c >= 48 && c <= 57;
+const isIdentPartCode = (c: number) => isIdentStartCode(c) || isDigit(c);
 
 /** Split OpenQASM text into tokens, skipping `//` and `/* … *\/` comments; ends with an `eof` token. */
 export function lexQasm(text: string): Token[] {
 	const tokens: Token[] = [];
 	let i = 0;
 	let line = 1;
-	let col = 1;
+	let lineStart = 0; // offset of the current line's first character (column = i − lineStart + 1)
 	const n = text.length;
-	const advance = (count: number) => {
-		for (let k = 0; k < count; k++) {
-			if (text[i] === '\n') {
-				line++;
-				col = 1;
-			} else col++;
-			i++;
-		}
-	};
 	while (i < n) {
-		const ch = text[i];
-		if (ch === ' ' || ch === '\t' || ch === '\r' || ch === '\n' || ch === '\f' || ch === '\v' || ch === '\ufeff') {
-			advance(1);
+		const c = text.charCodeAt(i);
+		if (c === 10) {
+			i++;
+			line++;
+			lineStart = i;
 			continue;
 		}
-		if (ch === '/' && text[i + 1] === '/') {
-			while (i < n && text[i] !== '\n') advance(1);
+		if (c === 32 || c === 9 || c === 13 || c === 12 || c === 11 || c === 0xfeff) {
+			i++;
 			continue;
 		}
-		if (ch === '/' && text[i + 1] === '*') {
+		const col = i - lineStart + 1;
+		if (c === 47 && text.charCodeAt(i + 1) === 47) {
+			while (i < n && text.charCodeAt(i) !== 10) i++;
+			continue;
+		}
+		if (c === 47 && text.charCodeAt(i + 1) === 42) {
 			const l0 = line;
-			const c0 = col;
-			advance(2);
-			while (i < n && !(text[i] === '*' && text[i + 1] === '/')) advance(1);
-			if (i >= n) throw new QasmError(l0, c0, 'unterminated comment: expected "*/" before the end of the file');
-			advance(2);
+			i += 2;
+			while (i < n && !(text.charCodeAt(i) === 42 && text.charCodeAt(i + 1) === 47)) {
+				if (text.charCodeAt(i) === 10) {
+					line++;
+					lineStart = i + 1;
+				}
+				i++;
+			}
+			if (i >= n) throw new QasmError(l0, col, 'unterminated comment: expected "*/" before the end of the file');
+			i += 2;
 			continue;
 		}
 		const start = i;
-		const l = line;
-		const c = col;
-		if (isIdentStart(ch)) {
+		if (isIdentStartCode(c)) {
 			let j = i + 1;
-			while (j < n && isIdentPart(text[j])) j++;
-			tokens.push({ kind: 'ident', text: text.slice(i, j), line: l, column: c, start, end: j });
-			advance(j - i);
+			while (j < n && isIdentPartCode(text.charCodeAt(j))) j++;
+			tokens.push({ kind: 'ident', text: text.slice(i, j), line, column: col, start, end: j });
+			i = j;
 			continue;
 		}
-		if (/[0-9]/.test(ch) || (ch === '.' && /[0-9]/.test(text[i + 1] ?? ''))) {
-			const m = /^(?:\d[\d_]*)?(?:\.\d*)?(?:[eE][+-]?\d+)?/.exec(text.slice(i, i + 400));
-			let s = m ? m[0] : ch;
-			if (s === '') s = ch;
-			const isFloat = /[.eE]/.test(s);
-			const after = text[i + s.length] ?? '';
-			if (isIdentStart(after)) {
-				throw new QasmError(l, c, `malformed number "${s}${after}": expected digits, a decimal point or an exponent`);
+		if (isDigit(c) || (c === 46 && isDigit(text.charCodeAt(i + 1)))) {
+			// digits[_digits] [. digits] [e[+-]digits]
+			let j = i;
+			let isFloat = false;
+			let underscore = false;
+			while (j < n && (isDigit(text.charCodeAt(j)) || (text.charCodeAt(j) === 95 && j > i))) {
+				if (text.charCodeAt(j) === 95) underscore = true;
+				j++;
 			}
-			tokens.push({ kind: isFloat ? 'float' : 'int', text: s.replace(/_/g, ''), line: l, column: c, start, end: i + s.length });
-			advance(s.length);
+			if (text.charCodeAt(j) === 46) {
+				isFloat = true;
+				j++;
+				while (j < n && isDigit(text.charCodeAt(j))) j++;
+			}
+			const e = text.charCodeAt(j);
+			if (e === 101 || e === 69) {
+				let k = j + 1;
+				const sign = text.charCodeAt(k);
+				if (sign === 43 || sign === 45) k++;
+				if (isDigit(text.charCodeAt(k))) {
+					while (k < n && isDigit(text.charCodeAt(k))) k++;
+					j = k;
+					isFloat = true;
+				}
+			}
+			if (j - i > 400) throw new QasmError(line, col, 'number is too long');
+			if (j < n && isIdentStartCode(text.charCodeAt(j))) {
+				throw new QasmError(line, col, `malformed number "${text.slice(i, j + 1)}": expected digits, a decimal point or an exponent`);
+			}
+			const raw = text.slice(i, j);
+			tokens.push({ kind: isFloat ? 'float' : 'int', text: underscore ? raw.replace(/_/g, '') : raw, line, column: col, start, end: j });
+			i = j;
 			continue;
 		}
-		if (ch === '"' || ch === "'") {
+		if (c === 34 || c === 39) {
 			let j = i + 1;
-			while (j < n && text[j] !== ch && text[j] !== '\n') j++;
-			if (j >= n || text[j] !== ch) throw new QasmError(l, c, `unterminated string: expected a closing ${ch} on the same line`);
-			tokens.push({ kind: 'string', text: text.slice(i + 1, j), line: l, column: c, start, end: j + 1 });
-			advance(j + 1 - i);
+			while (j < n && text.charCodeAt(j) !== c && text.charCodeAt(j) !== 10) j++;
+			if (j >= n || text.charCodeAt(j) !== c) throw new QasmError(line, col, `unterminated string: expected a closing ${text[i]} on the same line`);
+			tokens.push({ kind: 'string', text: text.slice(i + 1, j), line, column: col, start, end: j + 1 });
+			i = j + 1;
 			continue;
 		}
-		const p = PUNCT.find((x) => text.startsWith(x, i));
+		const cands = PUNCT_BY_FIRST.get(c);
+		let p: string | undefined;
+		if (cands) for (const x of cands) if (x.length === 1 || text.startsWith(x, i)) {
+			p = x;
+			break;
+		}
 		if (p) {
-			tokens.push({ kind: 'punct', text: p, line: l, column: c, start, end: i + p.length });
-			advance(p.length);
+			tokens.push({ kind: 'punct', text: p, line, column: col, start, end: i + p.length });
+			i += p.length;
 			continue;
 		}
-		throw new QasmError(l, c, `unexpected character "${ch}"`);
+		throw new QasmError(line, col, `unexpected character "${String.fromCodePoint(text.codePointAt(i)!)}"`);
 	}
-	tokens.push({ kind: 'eof', text: '', line, column: col, start: n, end: n });
+	tokens.push({ kind: 'eof', text: '', line, column: i - lineStart + 1, start: n, end: n });
 	return tokens;
 }
