@@ -8,6 +8,7 @@
  */
 import { create, parseDependencies, evaluateDependencies, piDependencies, tauDependencies, eDependencies, addDependencies, subtractDependencies, multiplyDependencies, divideDependencies, powDependencies, unaryMinusDependencies, unaryPlusDependencies, sqrtDependencies, sinDependencies, cosDependencies, logDependencies, expDependencies } from 'mathjs';
 import type { MathNode } from 'mathjs';
+import { bitLength, MAX_NUMBER_BITS } from './budget.js';
 
 const math = create({
 	parseDependencies,
@@ -309,9 +310,12 @@ function walk(node: MathNode, scope: AngleScope): Sym | null {
 					if (x.q.n === 0n) return { q: rat(sign * y.q.n, y.q.d), piPow: y.piPow };
 					if (y.q.n === 0n) return x;
 					if (x.piPow !== y.piPow) return null;
+					// Too big to keep exact (sizes estimated before the arithmetic): fall back to a float.
+					if (tooBig(Math.max(bits(x.q.n) + bits(y.q.d), bits(y.q.n) + bits(x.q.d)) + 1, bits(x.q.d) + bits(y.q.d))) return null;
 					return { q: rat(x.q.n * y.q.d + sign * y.q.n * x.q.d, x.q.d * y.q.d), piPow: x.piPow };
 				}
 				case 'multiply': {
+					if (tooBig(bits(x.q.n) + bits(y.q.n), bits(x.q.d) + bits(y.q.d))) return null;
 					const p = x.piPow + y.piPow;
 					const q = rat(x.q.n * y.q.n, x.q.d * y.q.d);
 					if (q.n === 0n) return { q, piPow: 0 };
@@ -320,6 +324,7 @@ function walk(node: MathNode, scope: AngleScope): Sym | null {
 				}
 				case 'divide': {
 					if (y.q.n === 0n) return null;
+					if (tooBig(bits(x.q.n) + bits(y.q.d), bits(x.q.d) + bits(y.q.n))) return null;
 					const p = x.piPow - y.piPow;
 					const q = rat(x.q.n * y.q.d, x.q.d * y.q.n);
 					if (q.n === 0n) return { q, piPow: 0 };
@@ -333,6 +338,7 @@ function walk(node: MathNode, scope: AngleScope): Sym | null {
 					const ei = Number(e);
 					if (x.piPow !== 0 && ei !== 1 && ei !== 0) return null;
 					if (ei === 0) return { q: rat(1n), piPow: 0 };
+					if (tooBig(bits(x.q.n) * Math.abs(ei), bits(x.q.d) * Math.abs(ei))) return null;
 					if (ei > 0) return { q: rat(x.q.n ** e, x.q.d ** e), piPow: x.piPow };
 					if (x.q.n === 0n) return null;
 					return { q: rat(x.q.d ** -e, x.q.n ** -e), piPow: 0 };
@@ -345,6 +351,13 @@ function walk(node: MathNode, scope: AngleScope): Sym | null {
 			return null;
 	}
 }
+
+const bits = bitLength;
+/** Either estimated size over the bound of one exact number (src/lib/quantum/budget.ts). */
+const tooBig = (a: number, b: number) => a > MAX_NUMBER_BITS || b > MAX_NUMBER_BITS;
+
+/** Longest angle text read; longer ones are refused before parsing. */
+export const MAX_ANGLE_TEXT = 1000;
 
 function isPowerOfTwo(d: bigint): number {
 	if (d <= 0n || (d & (d - 1n)) !== 0n) return -1;
@@ -406,6 +419,7 @@ function evaluateFloat(node: MathNode, scope: AngleScope, expr: string): number 
  * stored float in turns, anything else is a radian expression. Result in turns.
  */
 export function parseAngle(text: string, scope: AngleScope = {}): Angle {
+	if (text.length > MAX_ANGLE_TEXT) throw new SyntaxError(`angle is ${text.length} characters long; the limit is ${MAX_ANGLE_TEXT}`);
 	// Fast path for the form the importer and the editor write (`5/2^7 turn`, `0 turn`): no parser.
 	const fast = /^(-?\d{1,300})\/2\^(\d{1,4}) turns?$/.exec(text);
 	if (fast && Number(fast[2]) <= MAX_ANGLE_EXP) return dyadic(BigInt(fast[1]), Number(fast[2]));

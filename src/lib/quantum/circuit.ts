@@ -452,10 +452,12 @@ export interface GateView {
 export interface LoweringLimits {
 	maxQubits: number;
 	maxGates: number;
+	/** User-block calls expanded (a call whose block makes no gate still counts: issue 10). */
+	maxCalls: number;
 }
 
-/** Default limits: 4096 qubits, 8 million lowered gates. */
-export const DEFAULT_LIMITS: LoweringLimits = { maxQubits: 4096, maxGates: 8_000_000 };
+/** Default limits: 4096 qubits, 8 million lowered gates, 100 000 expanded block calls. */
+export const DEFAULT_LIMITS: LoweringLimits = { maxQubits: 4096, maxGates: 8_000_000, maxCalls: 100_000 };
 
 /** Read gate `index` of a lowered circuit as a {@link GateView} (flat qubits, angle in turns). */
 export function gateAt(c: LoweredCircuit, index: number): GateView {

@@ -235,6 +235,7 @@ export function lowerCircuit(input: CircuitDocument | unknown, options: Lowering
 	const defaultLayout: FourierLayout = doc.defaults?.layout ?? 'unswapped';
 	const ancillaReg = registers.find((r) => r.role === 'ancilla');
 	const sink = new GateSink(limits.maxGates);
+	let calls = 0;
 
 	const regOf = (name: string, env: Env, path: string): PlacedRegister => {
 		const actual = env.regs.get(name) ?? name;
@@ -399,6 +400,8 @@ export function lowerCircuit(input: CircuitDocument | unknown, options: Lowering
 				const ub = userBlocks.get(item.block);
 				if (!ub) throw new LoweringError(`unknown block "${item.block}"`, `${path}.block`);
 				if (env.depth >= 32) throw new LoweringError('user blocks nested deeper than 32 (recursive call?)', path);
+				// Count calls as work: blocks that call each other without making gates multiply without bound.
+				if (++calls > limits.maxCalls) throw new LoweringError(`more than ${limits.maxCalls} block calls after expansion (limit); block "${ub.name}" is called too often`, path);
 				const inner = bindCall(ub, item.args, env, path, id);
 				const b = sink.open('call', id, label ?? ub.name, { kind: 'call', block: ub.name, args: item.args }, undefined, [], item.source);
 				lowerBody(ub.body, inner, `${path}→${ub.name}.body`);

@@ -4,7 +4,7 @@
  * `"<expr> turn"`. Every error names the JSON path of the offending field (`body[2].qubits[0].index`).
  */
 import { z } from 'zod';
-import { parseAngle } from './angle.js';
+import { MAX_ANGLE_TEXT, parseAngle } from './angle.js';
 import { CIRCUIT_FORMAT, CIRCUIT_VERSION, DEFAULT_LIMITS } from './circuit.js';
 import { upgradeLegacyDocument } from './legacy.js';
 import type { BodyItem, CircuitDocument, UserBlock } from './circuit.js';
@@ -15,7 +15,7 @@ const qubitRef = z.strictObject({ register: name, index: intRef });
 const source = z.strictObject({ line: z.number().int().min(1), column: z.number().int().min(1) });
 const layout = z.enum(['swapped', 'unswapped']);
 const ccpLowering = z.enum(['native', 'ancilla', 'no-ancilla', 'quarter']);
-const angleText = z.string().min(1, 'angle must not be empty');
+const angleText = z.string().min(1, 'angle must not be empty').max(MAX_ANGLE_TEXT, `angle must be at most ${MAX_ANGLE_TEXT} characters`);
 const complexPair = z.tuple([z.number(), z.number()]);
 const matrix2 = z.tuple([z.tuple([complexPair, complexPair]), z.tuple([complexPair, complexPair])]);
 
@@ -55,7 +55,8 @@ const addConstItem = z.strictObject({
 	...base,
 	type: z.literal('add-const'),
 	target: name,
-	value: z.string().regex(/^-?\d+$/, 'must be a decimal integer string'),
+	// 4096 qubits hold at most 1234 decimal digits; longer values are refused before BigInt reads them.
+	value: z.string().max(1300, 'must be at most 1300 digits').regex(/^-?\d+$/, 'must be a decimal integer string'),
 	shift: intRef.optional(),
 	control: qubitRef.optional(),
 	layout: layout.optional()
@@ -82,7 +83,7 @@ const callItem = z.strictObject({
 	...base,
 	type: z.literal('call'),
 	block: name,
-	args: z.record(z.string(), z.union([z.string(), z.number().int()]))
+	args: z.record(z.string().max(64), z.union([z.string().max(MAX_ANGLE_TEXT), z.number().int().min(-1_000_000).max(1_000_000)]))
 });
 
 const decimal = z.string().regex(/^\d{1,30}$/, 'must be a non-negative decimal integer');

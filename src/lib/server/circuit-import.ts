@@ -3,6 +3,9 @@ import { importQasm } from '$lib/quantum/qasm/import';
 import type { CircuitDocument } from '$lib/quantum/circuit';
 import { MAX_CIRCUIT_UPLOAD } from '$lib/schemas/circuits';
 
+/** Most bytes an imported circuit may take once stored (as its JSON text). */
+export const MAX_STORED_DOCUMENT = 4 * 1024 * 1024;
+
 export type ImportResult = { ok: true; document: CircuitDocument; warnings: string[] } | { ok: false; errors: string[] };
 
 /** Read an uploaded circuit: OpenQASM 2.0 / 3.0 or an Orrery JSON document. */
@@ -18,6 +21,9 @@ export function importCircuitText(name: string, text: string): ImportResult {
 	if (trimmed.startsWith('{') || /\.json$/i.test(name)) return importJson(name, text);
 	try {
 		const r = importQasm(text, { file: name });
+		const stored = JSON.stringify(r.document).length;
+		if (stored > MAX_STORED_DOCUMENT)
+			return { ok: false, errors: [`${name}: the circuit would take ${(stored / 2 ** 20).toFixed(1)} MiB stored; the limit is ${MAX_STORED_DOCUMENT / 2 ** 20} MiB. Split it, or use gate definitions and broadcasts.`] };
 		// Notes say how printed decimals and decomposed gates were read, so the user can see it.
 		return { ok: true, document: r.document, warnings: [...r.warnings.map((w) => `${name}:${w.line}:${w.column}: ${w.message}`), ...r.notes.map((n) => `${name}: ${n}`)] };
 	} catch (e) {

@@ -14,6 +14,8 @@ import type { TraceSummaryInput } from '$lib/schemas/debugging';
 // refused with a sentence pointing at the workbench, whose worker has the browser's limits.
 
 export const SERVER_MAX_GATES = 50_000;
+/** Block calls expanded at most (calls that make no gate cost work too: issue 10). */
+export const SERVER_MAX_CALLS = 20_000;
 export const SERVER_MAX_AMPLITUDE_QUBITS = 12;
 
 export type ServerInputs = { values: Record<string, string>; superposed: string[] };
@@ -24,7 +26,7 @@ const unprocessable = (message: string): never => error(422, { message, code: 'b
 export function computeTraceSummary(doc: CircuitDocument, inputs: ServerInputs): TraceSummaryInput {
 	let circuit;
 	try {
-		circuit = lowerCircuit(doc, { limits: { maxGates: SERVER_MAX_GATES } });
+		circuit = lowerCircuit(doc, { limits: { maxGates: SERVER_MAX_GATES, maxCalls: SERVER_MAX_CALLS } });
 	} catch (e) {
 		if (e instanceof LoweringError || e instanceof RangeError) unprocessable(`The circuit does not lower here: ${e.message}`);
 		throw e;

@@ -7,6 +7,7 @@ import { create, parseDependencies } from 'mathjs';
 import type { MathNode } from 'mathjs';
 import { dyadic, floatTurns, ZERO_ANGLE, type Angle } from '../angle.js';
 import { QasmError, type Token } from './lexer.js';
+import { BudgetExceeded, bitLength, checkBits } from '../budget.js';
 
 const math = create({ parseDependencies }, { number: 'bigint' });
 const parseCache = new Map<string, MathNode>();
@@ -90,7 +91,12 @@ export function add(x: Num, y: Num, sign: 1n | -1n): Num {
 	if (x.exact && y.exact) {
 		if (y.n === 0n) return x;
 		if (x.n === 0n) return exactNum(sign * y.n, y.d, y.pi);
-		if (x.pi === y.pi) return exactNum(x.n * y.d + sign * y.n * x.d, x.d * y.d, x.pi);
+		if (x.pi === y.pi) {
+			// Sizes are bounded before the big-integer arithmetic runs (src/lib/quantum/budget.ts).
+			checkBits(Math.max(bitLength(x.n) + bitLength(y.d), bitLength(y.n) + bitLength(x.d)) + 1);
+			checkBits(bitLength(x.d) + bitLength(y.d));
+			return exactNum(x.n * y.d + sign * y.n * x.d, x.d * y.d, x.pi);
+		}
 	}
 	return f(numToFloat(x) + Number(sign) * numToFloat(y));
 }
@@ -98,7 +104,11 @@ export function add(x: Num, y: Num, sign: 1n | -1n): Num {
 export function mul(x: Num, y: Num): Num {
 	if (x.exact && y.exact) {
 		if (x.n === 0n || y.n === 0n) return exactNum(0n);
-		if (x.pi + y.pi <= 1) return exactNum(x.n * y.n, x.d * y.d, (x.pi + y.pi) as 0 | 1);
+		if (x.pi + y.pi <= 1) {
+			checkBits(bitLength(x.n) + bitLength(y.n));
+			checkBits(bitLength(x.d) + bitLength(y.d));
+			return exactNum(x.n * y.n, x.d * y.d, (x.pi + y.pi) as 0 | 1);
+		}
 	}
 	return f(numToFloat(x) * numToFloat(y));
 }
@@ -107,7 +117,11 @@ export function div(x: Num, y: Num): Num | null {
 	if (y.exact ? y.n === 0n : y.v === 0) return null;
 	if (x.exact && y.exact) {
 		if (x.n === 0n) return exactNum(0n);
-		if (x.pi >= y.pi) return exactNum(x.n * y.d, x.d * y.n, (x.pi - y.pi) as 0 | 1);
+		if (x.pi >= y.pi) {
+			checkBits(bitLength(x.n) + bitLength(y.d));
+			checkBits(bitLength(x.d) + bitLength(y.n));
+			return exactNum(x.n * y.d, x.d * y.n, (x.pi - y.pi) as 0 | 1);
+		}
 	}
 	return f(numToFloat(x) / numToFloat(y));
 }
@@ -115,6 +129,9 @@ function pow(x: Num, y: Num): Num {
 	if (x.exact && y.exact && y.pi === 0 && y.d === 1n && y.n >= -4096n && y.n <= 4096n) {
 		const e = y.n;
 		if (e === 0n) return exactNum(1n);
+		// The result has about |e| times the bits of the base: refuse it before computing it.
+		const times = Number(e < 0n ? -e : e);
+		checkBits(Math.max(bitLength(x.n), bitLength(x.d)) * times);
 		if (x.pi === 0 || e === 1n) {
 			if (e > 0n) return exactNum(x.n ** e, x.d ** e, x.pi);
 			if (x.n !== 0n && x.pi === 0) return exactNum(x.d ** -e, x.n ** -e);
@@ -139,7 +156,14 @@ export function evaluateTokens(tokens: Token[], scope: NumScope, file: string, w
 	if (tokens.length === 0) throw new RangeError('empty expression');
 	// Most expressions in exported files are numbers, π over powers of two and parameters: read
 	// them directly. Anything else (functions, %, ^, errors) goes through mathjs below.
-	const quick = quickEvaluate(tokens, scope);
+	let quick: Num | null;
+	try {
+		quick = quickEvaluate(tokens, scope);
+	} catch (e) {
+		// Arithmetic refused for size (bounded before it runs): place it at the expression.
+		if (e instanceof BudgetExceeded) throw new QasmError(tokens[0].line, tokens[0].column, `${e.message} in this expression`, file);
+		throw e;
+	}
 	if (quick) return quick;
 	const parts: string[] = [];
 	const aliases = new Map<string, Num>();
@@ -164,6 +188,9 @@ export function evaluateTokens(tokens: Token[], scope: NumScope, file: string, w
 			if (MATHJS_WORDS.has(t.text) && !scope.has(t.text)) throw new QasmError(t.line, t.column, `"${t.text}" cannot be used in an expression`, file);
 			operand = !isCall;
 		} else if (t.kind === 'int' || t.kind === 'float') {
+			// A literal's size is known from its digits: refuse a huge one before BigInt reads it.
+			const digits = t.text.replace(/[^0-9]/g, '').length;
+			if (digits * 3.3219 > 8192) throw new QasmError(t.line, t.column, `number too large: ${digits} digits; the limit is 8192 bits per number`, file);
 			operand = true;
 		} else if (t.kind === 'punct') {
 			if (t.text === '**') text = '^';
@@ -189,7 +216,15 @@ export function evaluateTokens(tokens: Token[], scope: NumScope, file: string, w
 	} catch (e) {
 		throw new QasmError(site.line, site.column, `expression does not parse (${(e as Error).message.replace(/ \(char \d+\)/, '')}); expected an arithmetic expression`, file);
 	}
-	const v = walk(node, aliases, site);
+	let v: Num;
+	try {
+		v = walk(node, aliases, site);
+	} catch (e) {
+		// Arithmetic refused for size, or a RangeError from exact arithmetic: place it at the expression.
+		if (e instanceof BudgetExceeded) throw new QasmError(site.line, site.column, `${e.message} in this expression`, file);
+		if (e instanceof RangeError && !(e instanceof QasmError)) throw new QasmError(site.line, site.column, `${e.message} in expression`, file);
+		throw e;
+	}
 	if (!v.exact && !Number.isFinite(v.v)) throw new QasmError(site.line, site.column, 'expression does not evaluate to a finite number', file);
 	return v;
 }

@@ -3,7 +3,7 @@ import { describe, expect, it } from 'vitest';
 import { importQasm } from './import.js';
 import { QasmError } from './lexer.js';
 import { lowerCircuit } from '../lower.js';
-import { gateAt, type GateItem } from '../circuit.js';
+import { gateAt, GateCode, type CallItem, type GateItem } from '../circuit.js';
 import { circuitUnitary, unitaryDistance, type DenseUnitary } from '../check/equivalence.js';
 
 const fixture = (name: string) => readFileSync(new URL(`./fixtures/${name}`, import.meta.url), 'utf8');
@@ -192,8 +192,15 @@ describe('constructs', () => {
 			'39:1: reset skipped: qubits start in |0⟩ and mid-circuit reset is not simulated'
 		]);
 		const body = r.document.body as GateItem[];
-		// `h a;` broadcasts to a[0], a[1]; `cx a, b;` pairs a[i] with b[i].
-		expect(body.slice(0, 4).map((i) => [i.gate, i.qubits.map((q) => `${q.register}${q.index}`).join(' ')])).toEqual([
+		// `h a;` broadcasts to a[0], a[1]; `cx a, b;` pairs a[i] with b[i] (OpenQASM 2.0 spec, §3
+		// "broadcast"). Each broadcast stays one call item; its gates sit in a block (issue 10).
+		const calls = r.document.body.slice(0, 2) as unknown as CallItem[];
+		expect(calls.map((c) => [c.type, c.block, c.source?.line])).toEqual([
+			['call', 'each_h_a', 17],
+			['call', 'each_cx_a', 18]
+		]);
+		const inBlock = (name: string) => (r.document.blocks!.find((b) => b.name === name)!.body as GateItem[]).map((i) => [i.gate, i.qubits.map((q) => `${q.register}${q.index}`).join(' ')]);
+		expect([...inBlock('each_h_a'), ...inBlock('each_cx_a')]).toEqual([
 			['h', 'a0'],
 			['h', 'a1'],
 			['cx', 'a0 b0'],
@@ -214,6 +221,9 @@ describe('constructs', () => {
 			{ gate: 'twist', line: 9, column: 3 }
 		]);
 		expect(body.every((i) => i.source && i.source.line >= 17)).toBe(true);
+		// Lowered, the broadcasts are the same gates as before, in order.
+		const lowered = lowerCircuit(r.document);
+		expect(Array.from(lowered.kinds.slice(0, 4))).toEqual([GateCode.h, GateCode.h, GateCode.cx, GateCode.cx]);
 		expect(() => lowerCircuit(r.document)).not.toThrow();
 	});
 	it('OpenQASM 3: declarations, const values, modifiers, measure forms', () => {
@@ -310,7 +320,7 @@ describe('malformed files', () => {
 		});
 	it('file size limit', () => {
 		expect(() => importQasm('OPENQASM 2.0;' + ' '.repeat(200), { file: 'big.qasm', limits: { maxBytes: 100 } })).toThrow(
-			'big.qasm:1:1: file is too large: 213 characters exceeds the limit of 100'
+			'big.qasm:1:101: file is too large: 213 characters exceeds the limit of 100; the limit is crossed here'
 		);
 	});
 	it('gate limit after lowering, counted at the call site', () => {
