@@ -12,8 +12,8 @@ export interface Args {
 	flags: Map<string, string[]>;
 }
 
-/** `--name value` or `--name=value` for the `valued` options (repeatable), `--json`, `--help`. */
-export function parseArgs(argv: string[], valued: ReadonlySet<string>): Args {
+/** `--name value` or `--name=value` for the `valued` options (repeatable), `--json`, `--help` and the `switches`. */
+export function parseArgs(argv: string[], valued: ReadonlySet<string>, switches: ReadonlySet<string> = new Set()): Args {
 	const positional: string[] = [];
 	const flags = new Map<string, string[]>();
 	for (let i = 0; i < argv.length; i++) {
@@ -24,7 +24,7 @@ export function parseArgs(argv: string[], valued: ReadonlySet<string>): Args {
 				const v = inline ?? argv[++i];
 				if (v === undefined) throw new CliError(`${k} needs a value`);
 				flags.set(k, [...(flags.get(k) ?? []), v]);
-			} else if (k === '--json' || k === '--help') flags.set(k, ['1']);
+			} else if (k === '--json' || k === '--help' || switches.has(k)) flags.set(k, ['1']);
 			else throw new CliError(`unknown option ${k}`);
 		} else positional.push(a);
 	}

@@ -40,8 +40,9 @@ const USAGE = `usage: orrery <command> [options]
   convert IN OUT            (.qasm = OpenQASM 2 unless its header says 3, .qasm3 = OpenQASM 3, .json = document)
   equiv A B [--ancilla REG[,REG]] [--json]
                             compare two circuits as unitaries (≤ 10 qubits), up to global phase
-  push FILE --spec "…" --server URL --token T [--input a=5,b=3] [--json]
-                            check, upload the trace, and open a report when it fails
+  push FILE (--circuit ID --base N | --new "Title") --spec "…" --server URL [--force] [--reviewer EMAIL] [--json]
+                            check, add the version, upload the trace, and open a report at the first
+                            divergence when it fails; the token comes from ORRERY_TOKEN (push --help)
 Reading a file (every command):
   --register NAME=QUBITS    name a register over the file's qubits, listed from its least-significant
                             bit (OpenQASM 3 index syntax): x=q[0:15], x=q[15:-1:0] (MSB first in the

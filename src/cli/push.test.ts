@@ -1,11 +1,16 @@
 import { describe, expect, it } from 'vitest';
-import { runPush, type PushIo } from './push';
+import { PUSH_USAGE, runPush, type PushIo } from './push';
 import { plantedFaultAdder } from '../lib/quantum/templates';
 
 // The push command against a recorded fake server: what it sends and what it exits with. The
 // circuit is the invented demo adder with its planted fault (rotation c·a[1] → b[3] at pi/8).
+// The server's side (stale refusal, recomputed divergence, the drawn board) is tested against
+// the real app in tests/e2e/push.spec.ts.
 
-function fakeIo(doc: unknown) {
+const CIRCUIT = 'c'.repeat(24);
+const TRACE = 't'.repeat(24);
+
+function fakeIo(doc: unknown, opts: { traceStatus?: number; traceError?: string } = {}) {
 	const sent: { method: string; path: string; body: unknown; auth: string | null }[] = [];
 	const out: string[] = [];
 	const io: PushIo = {
@@ -18,8 +23,18 @@ function fakeIo(doc: unknown) {
 			sent.push({ method: init.method ?? 'GET', path, body, auth: new Headers(init.headers).get('authorization') });
 			const reply = (status: number, json: unknown) => new Response(JSON.stringify(json), { status, headers: { 'content-type': 'application/json' } });
 			if (path === '/api/me') return reply(200, { teams: [{ slug: 'lab' }] });
-			if (path === '/api/teams/lab/traces') return reply(201, { id: 't'.repeat(24), links: { replay: '/teams/lab/traces/x/replay' } });
-			if (path.startsWith('/api/teams/lab/traces/')) return reply(200, { trace: { firstDivergence: { step: 13 }, lastStep: 30 } });
+			if (path === '/api/teams/lab/members') return reply(200, { members: [{ id: 'r'.repeat(24), email: 'rev@lab.example' }] });
+			if (path === '/api/teams/lab/traces') {
+				if (opts.traceStatus) return reply(opts.traceStatus, { error: { message: opts.traceError } });
+				return reply(201, {
+					id: TRACE,
+					circuit: { id: CIRCUIT, version: 5, addedVersion: true },
+					firstDivergence: { step: 13, label: 'b[3]', message: 'q8 (b[3]) at step 13: …' },
+					lastStep: 30,
+					links: { replay: '/teams/lab/traces/x/replay', circuit: '/teams/lab/circuits/c' }
+				});
+			}
+			if (path === `/api/teams/lab/circuits/${CIRCUIT}/checks`) return reply(201, { status: 'x' });
 			if (path === '/api/teams/lab/reports') return reply(201, { id: 'r'.repeat(24), links: { page: '/teams/lab/reports/r', replay: '/x' } });
 			return reply(404, { error: { message: 'no such route' } });
 		}) as unknown as typeof fetch
@@ -27,39 +42,71 @@ function fakeIo(doc: unknown) {
 	return { io, sent, out };
 }
 
-const args = (spec: string) => ['adder.json', '--spec', spec, '--server', 'http://orrery.test', '--token', 'orr_test', '--json'];
+const env = { ORRERY_TOKEN: 'orr_fromenv' };
+const args = (spec: string, target = ['--circuit', CIRCUIT, '--base', '4']) => ['adder.json', ...target, '--spec', spec, '--server', 'http://orrery.test', '--json'];
 
 describe('orrery push', () => {
-	it('uploads the trace at the first failing input and opens a report at the divergence; exit 1', async () => {
+	it('names its target, sends its base version, opens the report at the server\'s divergence; exit 1', async () => {
 		const { io, sent, out } = fakeIo(plantedFaultAdder());
-		expect(await runPush(args('b = b + c*a mod 16'), io)).toBe(1);
-		expect(sent.map((s) => `${s.method} ${s.path}`)).toEqual(['GET /api/me', 'POST /api/teams/lab/traces', `GET /api/teams/lab/traces/${'t'.repeat(24)}`, 'POST /api/teams/lab/reports']);
-		expect(sent.every((s) => s.auth === 'Bearer orr_test')).toBe(true);
-		const trace = sent[1].body as { document: { specs: string[] }; inputs: { values: Record<string, string> } };
+		expect(await runPush([...args('b = b + c*a mod 16'), '--reviewer', 'REV@lab.example'], io, env)).toBe(1);
+		expect(sent.map((s) => `${s.method} ${s.path}`)).toEqual(['GET /api/me', 'GET /api/teams/lab/members', 'POST /api/teams/lab/traces', `POST /api/teams/lab/circuits/${CIRCUIT}/checks`, 'POST /api/teams/lab/reports']);
+		expect(sent.every((s) => s.auth === 'Bearer orr_fromenv')).toBe(true);
+		const trace = sent[2].body as { circuitId: string; baseVersion: number; force: boolean; document: { specs: string[] }; inputs: { values: Record<string, string> } };
+		expect(trace).toMatchObject({ circuitId: CIRCUIT, baseVersion: 4, force: false });
 		expect(trace.document.specs).toContain('b = b + c*a mod 16');
 		// The fault needs c=1 and a[1]=1, so the first failing input has both.
 		expect(trace.inputs.values.c).toBe('1');
 		expect((BigInt(trace.inputs.values.a) >> 1n) & 1n).toBe(1n);
-		const report = sent[3].body as { step: number; severity: string; description: string };
+		expect(sent[3].body).toMatchObject({ version: 5, ok: false });
+		const report = sent[4].body as { step: number; severity: string; description: string; reviewerId: string };
 		expect(report.step).toBe(13);
-		expect(report.severity).toBe('high');
-		expect(report.description).toContain('fail');
-		expect(JSON.parse(out[0])).toMatchObject({ ok: false, report: { id: 'r'.repeat(24), page: 'http://orrery.test/teams/lab/reports/r' } });
+		expect(report.reviewerId).toBe('r'.repeat(24));
+		expect(report.description).toContain('step 13 on b[3]');
+		expect(JSON.parse(out[0])).toMatchObject({ ok: false, circuit: { id: CIRCUIT, version: 5 }, report: { id: 'r'.repeat(24), page: 'http://orrery.test/teams/lab/reports/r' } });
 	});
 
-	it('opens no report when the circuit meets its spec; exit 0', async () => {
+	it('--new makes a new circuit with that title; a passing push records its verdict and opens no report; exit 0', async () => {
 		const fixed = plantedFaultAdder();
 		fixed.body = fixed.body.map((i) => (i.id === 'rot-b3-a1' ? { ...i, angle: 'pi/4' } : i)) as typeof fixed.body;
 		const { io, sent } = fakeIo(fixed);
-		expect(await runPush(args('b = b + c*a mod 16'), io)).toBe(0);
+		expect(await runPush(args('b = b + c*a mod 16', ['--new', 'Adder from CI']), io, env)).toBe(0);
+		const trace = sent.find((s) => s.path === '/api/teams/lab/traces')!.body as { newTitle: string; circuitId?: string; document: { title: string } };
+		expect(trace.newTitle).toBe('Adder from CI');
+		expect(trace.circuitId).toBeUndefined();
+		expect(sent.find((s) => s.path.endsWith('/checks'))!.body).toMatchObject({ ok: true });
 		expect(sent.map((s) => s.path)).not.toContain('/api/teams/lab/reports');
 	});
 
-	it('exits 2 with a sentence when the token or the spec is missing', async () => {
-		delete process.env.ORRERY_TOKEN;
+	it('refuses to guess a target: no target, both targets, --circuit without --base; exit 2 before any request', async () => {
+		for (const [target, says] of [
+			[[], /--circuit ID --base N .* or --new/],
+			[['--circuit', CIRCUIT, '--base', '1', '--new', 'x'], /not both/],
+			[['--circuit', CIRCUIT], /--base N/],
+			[['--circuit', 'adder', '--base', '1'], /not a circuit id/],
+			[['--circuit', CIRCUIT, '--base', 'two'], /--base: expected a version number/]
+		] as [string[], RegExp][]) {
+			const { io, sent, out } = fakeIo(plantedFaultAdder());
+			expect(await runPush(['adder.json', ...target, '--spec', 'b = b + c*a mod 16', '--server', 'http://orrery.test'], io, env)).toBe(2);
+			expect(out.at(-1)).toMatch(says);
+			expect(sent).toEqual([]);
+		}
+	});
+
+	it('a stale base is refused with the server\'s sentence naming both versions; --force sends force; exit 2', async () => {
+		const msg = '"Adder" is at version 5, but your file is based on version 4. …';
+		const { io, out } = fakeIo(plantedFaultAdder(), { traceStatus: 409, traceError: msg });
+		expect(await runPush(args('b = b + c*a mod 16').filter((a) => a !== '--json'), io, env)).toBe(2);
+		expect(out.at(-1)).toBe(`ERR refused: ${msg}`);
+		const forced = fakeIo(plantedFaultAdder());
+		await runPush(args('b = b + c*a mod 16', ['--circuit', CIRCUIT, '--force']), forced.io, env);
+		expect(forced.sent.find((s) => s.path === '/api/teams/lab/traces')!.body).toMatchObject({ circuitId: CIRCUIT, force: true });
+	});
+
+	it('exits 2 with a sentence naming ORRERY_TOKEN when no token is given; --help shows a CI example with it', async () => {
 		const { io, out } = fakeIo(plantedFaultAdder());
-		expect(await runPush(['adder.json', '--spec', 'b = b + c*a mod 16', '--server', 'http://orrery.test'], { ...io, out: () => {} })).toBe(2);
-		expect(out.at(-1)).toContain('--token');
-		expect(await runPush(['adder.json', '--server', 'http://orrery.test', '--token', 'x'], io)).toBe(2);
+		expect(await runPush(args('b = b + c*a mod 16'), io, {})).toBe(2);
+		expect(out.at(-1)).toContain('ORRERY_TOKEN');
+		expect(await runPush(['adder.json', '--circuit', CIRCUIT, '--base', '1', '--server', 'http://orrery.test'], io, env)).toBe(2);
+		expect(PUSH_USAGE).toMatch(/ORRERY_TOKEN=\$\{\{ secrets\.ORRERY_TOKEN \}\} npm run orrery -- push/);
 	});
 });

@@ -11,6 +11,7 @@ export const routes = {
 	resetPassword: (token: string) => `/reset/${enc(token)}`,
 	invite: (token: string) => `/invite/${enc(token)}`,
 	teams: () => '/teams',
+	account: () => '/account',
 	team: (slug: string) => `/teams/${enc(slug)}`,
 	teamMembers: (slug: string) => `/teams/${enc(slug)}/members`,
 	teamTokens: (slug: string) => `/teams/${enc(slug)}/tokens`,
@@ -40,6 +41,8 @@ export const routes = {
 		trace: (slug: string, id: string) => `/api/teams/${enc(slug)}/traces/${enc(id)}`,
 		reports: (slug: string) => `/api/teams/${enc(slug)}/reports`,
 		report: (slug: string, id: string) => `/api/teams/${enc(slug)}/reports/${enc(id)}`,
+		/** The dial board at the report's step, drawn on the server (SVG). */
+		reportBoard: (slug: string, id: string) => `/api/teams/${enc(slug)}/reports/${enc(id)}/board`,
 		reportComments: (slug: string, id: string) => `/api/teams/${enc(slug)}/reports/${enc(id)}/comments`,
 		breakpoints: (slug: string) => `/api/teams/${enc(slug)}/breakpoints`,
 		breakpoint: (slug: string, id: string) => `/api/teams/${enc(slug)}/breakpoints/${enc(id)}`,

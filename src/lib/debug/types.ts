@@ -41,3 +41,12 @@ export function describeBreakpoint(spec: SavedBreakpointView['spec'], qubitLabel
 			return `${qubitLabel(s.qubit)} becomes entangled`;
 	}
 }
+
+/** Ledger rows of one qubit up to a report's step (angles as exact turn fractions); server-made. */
+export type LedgerExcerpt = {
+	qubit: number;
+	label: string;
+	rows: { step: number; gate: string; line: number | null; amount: string | null; total: string | null; expected: string | null; parted: boolean }[];
+	/** Rows of this qubit's ledger before the first one shown. */
+	earlier: number;
+};

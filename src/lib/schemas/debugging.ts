@@ -38,11 +38,18 @@ export const createTraceSchema = z
 		circuitId: id24.optional(),
 		version: z.number().int().min(1).optional(),
 		document: z.unknown().optional(),
+		/** With document + circuitId: the version the document was edited from (a later latest is refused unless force). */
+		baseVersion: z.number().int().min(1).optional(),
+		force: z.boolean().default(false),
+		/** With document and no circuitId: the new circuit's title (default: the document's). */
+		newTitle: z.string().trim().min(1).max(120).optional(),
 		label: z.string().trim().max(160).default(''),
 		inputs: traceInputsSchema.default({ values: {}, superposed: [] }),
 		summary: traceSummarySchema.optional()
 	})
-	.refine((v) => (v.circuitId && v.version) || v.document !== undefined, { message: 'Send circuitId and version, or a document.' });
+	.refine((v) => (v.circuitId && v.version) || v.document !== undefined, { message: 'Send circuitId and version, or a document.' })
+	.refine((v) => !(v.newTitle && v.circuitId), { message: 'Send circuitId (add a version) or newTitle (a new circuit), not both.' })
+	.refine((v) => !(v.document !== undefined && v.circuitId && v.baseVersion === undefined && !v.force), { message: 'With a document for an existing circuit, send baseVersion (the version it was edited from), or force: true.', path: ['baseVersion'] });
 
 const specBase = { note: z.string().max(4000).default('') };
 export const breakpointSpecSchema = z.discriminatedUnion('kind', [

@@ -1,13 +1,13 @@
-import { error } from '@sveltejs/kit';
+import { error, isHttpError } from '@sveltejs/kit';
 import { db } from './db';
 import { sha256 } from './ids';
 import type { TeamAccess } from './guard';
 import { checkSnapshot } from './png';
-import { computeTraceSummary } from './trace-compute';
-import { createCircuit, findCircuit, findVersion, saveVersion } from './repositories/circuits';
-import { insertTrace } from './repositories/traces';
-import { createReport, findReport, ReportConflict } from './repositories/reports';
-import { notifyReportPeople } from './report-mail';
+import { computeTraceSummary, drawBoardAt } from './trace-compute';
+import { createCircuit, findCircuit, findVersion, saveVersion, StaleVersionError } from './repositories/circuits';
+import { findTrace, insertTrace } from './repositories/traces';
+import { createReport, findReport, ReportConflict, setReportBoard } from './repositories/reports';
+import { notifyReportOpened } from './report-mail';
 import { listBreakpoints } from './repositories/breakpoints';
 import { listMembers } from './repositories/teams';
 import { can } from '$lib/permissions';
@@ -24,44 +24,72 @@ type CreateTrace = z.infer<typeof createTraceSchema>;
 
 const unprocessable = (message: string): never => error(422, { message, code: 'bad_request' });
 
-/** The circuit version a trace refers to; from the command line, found by title or made. */
+/**
+ * The circuit version a trace refers to. From the command line the target is explicit: a
+ * circuitId with the version the document was edited from (a newer latest is refused, naming
+ * both, unless `force`), or no circuitId for a new circuit. A circuit is never found by title.
+ */
 async function resolveVersion(access: TeamAccess, body: CreateTrace) {
-	if (body.circuitId && body.version) {
+	if (body.circuitId && body.version && body.document === undefined) {
 		const circuit = await findCircuit(db, access.team.id, body.circuitId);
 		if (!circuit) error(404, { message: 'No such circuit in this team.', code: 'not_found' });
 		const version = await findVersion(db, circuit.id, body.version);
 		if (!version) error(404, { message: `This circuit has no version ${body.version}.`, code: 'not_found' });
-		return { circuit, version };
+		return { circuit, version, added: false };
 	}
 	const parsed = parseCircuitDocument(body.document);
 	if (!parsed.ok) unprocessable(`The circuit document is not valid: ${parsed.issues.slice(0, 5).map((i) => `${i.path}: ${i.message}`).join('; ')}`);
 	const doc = parsed.ok ? parsed.document : (null as never);
-	const text = serializeCircuitDocument(doc);
-	const existing = await db('circuits').where({ team_id: access.team.id, title: doc.title.slice(0, 120) }).orderBy('created_at', 'asc').first('id');
-	let circuitId: string;
-	let number: number;
-	if (!existing) {
-		const made = await createCircuit(db, access.team.id, access.user.id, doc, 'uploaded with a trace');
-		circuitId = made.circuit.id;
-		number = made.version;
-	} else {
-		circuitId = existing.id;
-		const latest = (await findCircuit(db, access.team.id, circuitId))!;
-		const v = await findVersion(db, circuitId, latest.latest_version);
-		number = v && v.hash === sha256(text) ? v.version : await saveVersion(db, circuitId, latest.latest_version, access.user.id, doc, 'uploaded with a trace');
+	if (!body.circuitId) {
+		// A trace makes a circuit only for a member who may edit circuits (trace.create is the same roles today).
+		if (!can(access.role, 'circuit.edit')) error(403, { message: 'Your role in this team does not allow this.', code: 'forbidden' });
+		if (body.newTitle) doc.title = body.newTitle;
+		const made = await createCircuit(db, access.team.id, access.user.id, doc, 'pushed from the command line');
+		return { circuit: made.circuit, version: (await findVersion(db, made.circuit.id, made.version))!, added: true };
 	}
-	const circuit = (await findCircuit(db, access.team.id, circuitId))!;
-	return { circuit, version: (await findVersion(db, circuitId, number))! };
+	if (!can(access.role, 'circuit.edit')) error(403, { message: 'Your role in this team does not allow this.', code: 'forbidden' });
+	const circuit = await findCircuit(db, access.team.id, body.circuitId);
+	if (!circuit) error(404, { message: 'No such circuit in this team.', code: 'not_found' });
+	const latest = (await findVersion(db, circuit.id, circuit.latest_version))!;
+	// The same document as the latest version: nothing to add, the trace refers to it.
+	if (latest.hash === sha256(serializeCircuitDocument(doc))) return { circuit, version: latest, added: false };
+	const base = body.force ? circuit.latest_version : body.baseVersion!;
+	if (base > circuit.latest_version) error(409, { message: `"${circuit.title}" has no version ${base} yet (its latest is version ${circuit.latest_version}).`, code: 'conflict' });
+	const stale = (latestNow: number): never =>
+		error(409, {
+			message: `"${circuit.title}" is at version ${latestNow}, but your file is based on version ${base}. Someone saved a newer version since: export version ${latestNow}, merge, and push again (or push with --force to add yours on top of version ${latestNow}).`,
+			code: 'conflict'
+		});
+	if (base !== circuit.latest_version) stale(circuit.latest_version);
+	let number: number;
+	try {
+		number = await saveVersion(db, circuit.id, base, access.user.id, doc, body.force ? 'pushed from the command line (forced)' : 'pushed from the command line');
+	} catch (e) {
+		if (e instanceof StaleVersionError) stale(e.latest);
+		throw e;
+	}
+	return { circuit: (await findCircuit(db, access.team.id, circuit.id))!, version: (await findVersion(db, circuit.id, number!))!, added: true };
 }
 
-/** Save a trace; returns its id and whether the server computed the summary. */
-export async function saveTrace(access: TeamAccess, body: CreateTrace): Promise<{ id: string; computedBy: 'browser' | 'server'; circuitId: string; version: number }> {
-	const { circuit, version } = await resolveVersion(access, body);
+export type SavedTrace = {
+	id: string;
+	computedBy: 'browser' | 'server';
+	circuitId: string;
+	version: number;
+	/** True when this upload added the version (a push of a changed document). */
+	addedVersion: boolean;
+	firstDivergence: { step: number; qubit: number; label: string; message: string } | null;
+	lastStep: number;
+};
+
+/** Save a trace; returns its id, its version, whether the server computed the summary, and its first divergence. */
+export async function saveTrace(access: TeamAccess, body: CreateTrace): Promise<SavedTrace> {
+	const { circuit, version, added } = await resolveVersion(access, body);
 	const inputs = { values: body.inputs.values, superposed: body.inputs.superposed };
 	const summary = body.summary ?? computeTraceSummary(version.document, inputs);
 	const computedBy = body.summary ? 'browser' : 'server';
 	const id = await insertTrace(db, { teamId: access.team.id, circuitId: circuit.id, versionId: version.id, version: version.version, authorId: access.user.id, label: body.label, inputs, summary, computedBy });
-	return { id, computedBy, circuitId: circuit.id, version: version.version };
+	return { id, computedBy, circuitId: circuit.id, version: version.version, addedVersion: added, firstDivergence: summary.firstDivergence, lastStep: summary.lastStep };
 }
 
 /** Read a report from JSON or from multipart (`report` as JSON text plus an optional `snapshot` file). */
@@ -98,7 +126,28 @@ export async function readReportRequest(request: Request): Promise<{ input: Crea
 	return { input: parsed.data, snapshot };
 }
 
-/** Open a report (snapshot checked by its bytes) and mail its assignee and reviewer. */
+/**
+ * Draw the dial board at the report's step on the server (SVG) with its ledger excerpt, from a
+ * fresh run of the trace's saved version and inputs. Reports without a snapshot (the command
+ * line) open with it. Past the server's run bounds there is no picture, and the page says so.
+ */
+async function drawReportBoard(teamId: string, reportId: string, traceId: string, step: number, circuitTitle: string): Promise<boolean> {
+	const trace = await findTrace(db, teamId, traceId);
+	if (!trace) return false;
+	const version = await findVersion(db, trace.circuit_id, trace.version);
+	if (!version) return false;
+	try {
+		const inputs = Object.entries(trace.inputs.values).map(([k, v]) => `${k}=${v}`).join(', ');
+		const picture = drawBoardAt(version.document, trace.inputs, step, [`${circuitTitle} v${trace.version}${inputs ? ` · inputs ${inputs}` : ''}`]);
+		await setReportBoard(db, reportId, picture.svg, picture.ledger);
+		return true;
+	} catch (e) {
+		if (isHttpError(e)) return false; // past the server's bounds: the report stands without a picture
+		throw e;
+	}
+}
+
+/** Open a report (snapshot checked by its bytes; a server-drawn board when none) and mail its assignee and reviewer. */
 export async function openReport(access: TeamAccess, input: CreateReportInput, snapshotBytes: Uint8Array | null): Promise<{ id: string; mailed: number }> {
 	const snapshot = snapshotBytes ? { bytes: snapshotBytes, ...checkSnapshot(snapshotBytes) } : null;
 	let id: string;
@@ -108,22 +157,9 @@ export async function openReport(access: TeamAccess, input: CreateReportInput, s
 		if (e instanceof ReportConflict) error(e.status, { message: e.message, code: e.status === 409 ? 'conflict' : 'bad_request' });
 		throw e;
 	}
-	const r = (await findReport(db, access.team.id, id))!;
-	const people: { part: 'assignee' | 'reviewer'; email: string; name: string }[] = [];
-	if (r.assignee?.email) people.push({ part: 'assignee', email: r.assignee.email, name: r.assignee.name });
-	if (r.reviewer?.email) people.push({ part: 'reviewer', email: r.reviewer.email, name: r.reviewer.name });
-	const mailed = await notifyReportPeople({
-		people,
-		authorName: access.user.name,
-		teamName: access.team.name,
-		teamSlug: access.team.slug,
-		reportId: id,
-		traceId: r.trace.id,
-		step: r.step,
-		title: r.title,
-		circuitTitle: r.circuit.title,
-		severity: r.severity
-	});
+	let r = (await findReport(db, access.team.id, id))!;
+	if (!snapshot && (await drawReportBoard(access.team.id, id, r.trace.id, r.step, r.circuit.title))) r = (await findReport(db, access.team.id, id))!;
+	const mailed = await notifyReportOpened(db, { team: access.team, actor: access.user, report: r });
 	return { id, mailed };
 }
 

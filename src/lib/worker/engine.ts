@@ -111,13 +111,22 @@ interface PreparedCircuit {
 // the last document, so changing only the inputs does not lower and scan the circuit again.
 let lastPrepared: { key: string; value: PreparedCircuit } | null = null;
 
+/**
+ * The expectations a run checks against: the specs as register intents and, for circuits with no
+ * QFT blocks (imported gate lists), the Fourier sections found from the raw gates. The server's
+ * trace computation uses this too, so both find the same divergences.
+ */
+export function prepareIntents(doc: CircuitDocument, circuit: LoweredCircuit): Omit<PreparedCircuit, 'circuit'> {
+	const { intents, problems } = intentsFromSpecs(doc.specs ?? [], circuit);
+	const intentSections = intents.length && !findFourierSections(circuit).length ? sectionsFromGates(circuit, doc.specs ?? []) : [];
+	return { intents, problems, intentSections };
+}
+
 function prepareCircuit(doc: CircuitDocument): PreparedCircuit {
 	const key = JSON.stringify(doc);
 	if (lastPrepared?.key === key) return lastPrepared.value;
 	const circuit = lowerCircuit(doc);
-	const { intents, problems } = intentsFromSpecs(doc.specs ?? [], circuit);
-	const intentSections = intents.length && !findFourierSections(circuit).length ? sectionsFromGates(circuit, doc.specs ?? []) : [];
-	const value = { circuit, intents, problems, intentSections };
+	const value = { circuit, ...prepareIntents(doc, circuit) };
 	lastPrepared = { key, value };
 	return value;
 }

@@ -5,6 +5,7 @@ import { renderMarkdown } from '../markdown';
 import { insertAttachment } from './attachments';
 import { canMove, STATUS_LABEL, type ReportStatus, type Severity } from '$lib/debug/reports';
 import type { CreateReportInput, ReportQuery, UpdateReportInput } from '$lib/schemas/debugging';
+import type { LedgerExcerpt } from '$lib/debug/types';
 
 type Person = { id: string; name: string; email?: string } | null;
 
@@ -22,6 +23,8 @@ export type ReportView = {
 	assignee: Person;
 	reviewer: Person;
 	snapshot: { id: string; width: number | null; height: number | null; byteSize: number } | null;
+	/** The server-drawn dial board at the report's step (reports from the command line), with its ledger excerpt. */
+	board: { ledger: LedgerExcerpt | null } | null;
 	revision: number;
 	createdAt: string;
 	updatedAt: string;
@@ -47,7 +50,25 @@ function base(db: Db) {
 		.leftJoin('users as rv', 'rv.id', 'r.reviewer_id')
 		.leftJoin('attachments as a', 'a.id', 'r.snapshot_id')
 		.select(
-			'r.*',
+			'r.id',
+			'r.team_id',
+			'r.trace_id',
+			'r.circuit_id',
+			'r.step',
+			'r.title',
+			'r.description_md',
+			'r.description_html',
+			'r.severity',
+			'r.status',
+			'r.author_id',
+			'r.assignee_id',
+			'r.reviewer_id',
+			'r.snapshot_id',
+			'r.revision',
+			'r.created_at',
+			'r.updated_at',
+			'r.board_ledger',
+			db.raw('r.board_svg IS NOT NULL as has_board'),
 			'c.title as circuit_title',
 			't.version as trace_version',
 			't.last_step as trace_last_step',
@@ -77,6 +98,7 @@ function toView(r: Record<string, never>): ReportView {
 		assignee: person(r.assignee_id, r.assignee_name, r.assignee_email),
 		reviewer: person(r.reviewer_id, r.reviewer_name, r.reviewer_email),
 		snapshot: r.snapshot_id ? { id: r.snapshot_id, width: r.snapshot_width, height: r.snapshot_height, byteSize: r.snapshot_bytes } : null,
+		board: r.has_board ? { ledger: r.board_ledger ? (typeof r.board_ledger === 'string' ? JSON.parse(r.board_ledger) : r.board_ledger) : null } : null,
 		revision: r.revision,
 		createdAt: (r.created_at as Date).toISOString(),
 		updatedAt: (r.updated_at as Date).toISOString()
@@ -224,4 +246,39 @@ export async function deleteReport(db: Db, teamId: string, id: string, actorId: 
 	const n = await db('reports').where({ team_id: teamId, id }).delete();
 	if (n) await db('audit_log').insert({ actor_id: actorId, team_id: teamId, action: 'report.delete', subject_type: 'report', subject_id: id });
 	return n > 0;
+}
+
+/** Keep the server-drawn board (SVG) and ledger excerpt of a report. */
+export async function setReportBoard(db: Db, reportId: string, svg: string, ledger: LedgerExcerpt | null): Promise<void> {
+	await db('reports').where({ id: reportId }).update({ board_svg: svg, board_ledger: ledger ? JSON.stringify(ledger) : null });
+}
+
+export async function findReportBoardSvg(db: Db, teamId: string, reportId: string): Promise<string | null> {
+	const r = await db('reports').where({ team_id: teamId, id: reportId }).first('board_svg');
+	return (r?.board_svg as string | null | undefined) ?? null;
+}
+
+export type ReportPerson = { id: string; email: string; name: string; mailReportEvents: boolean; part: 'author' | 'assignee' | 'reviewer' };
+
+/** The reporter, the assignee and the reviewer of a report (those who exist), with their mail setting. */
+export async function reportPeople(db: Db, teamId: string, reportId: string): Promise<ReportPerson[]> {
+	const r = await db('reports').where({ team_id: teamId, id: reportId }).first('author_id', 'assignee_id', 'reviewer_id');
+	if (!r) return [];
+	const parts = [['author', r.author_id], ['assignee', r.assignee_id], ['reviewer', r.reviewer_id]] as const;
+	const ids = parts.map(([, id]) => id).filter((x): x is string => Boolean(x));
+	if (!ids.length) return [];
+	// Only current members hear about the team's reports.
+	const users = await db('users as u')
+		.join('memberships as m', function () {
+			this.on('m.user_id', '=', 'u.id').andOn('m.team_id', '=', db.raw('?', [teamId]));
+		})
+		.whereIn('u.id', ids)
+		.select('u.id', 'u.email', 'u.name', 'u.mail_report_events');
+	const byId = new Map(users.map((u: { id: string; email: string; name: string; mail_report_events: number | boolean }) => [u.id, u]));
+	const out: ReportPerson[] = [];
+	for (const [part, id] of parts) {
+		const u = id ? byId.get(id) : undefined;
+		if (u) out.push({ id: u.id, email: u.email, name: u.name, mailReportEvents: Boolean(u.mail_report_events), part });
+	}
+	return out;
 }

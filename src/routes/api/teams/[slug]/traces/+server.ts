@@ -28,7 +28,14 @@ export const POST: RequestHandler = apiRoute(async ({ locals, params, request })
 	const body = await readJson(request, createTraceSchema);
 	const saved = await saveTrace(access, body);
 	return json(
-		{ id: saved.id, computedBy: saved.computedBy, circuit: { id: saved.circuitId, version: saved.version }, links: { replay: routes.replay(access.team.slug, saved.id), api: routes.api.trace(access.team.slug, saved.id) } },
+		{
+			id: saved.id,
+			computedBy: saved.computedBy,
+			circuit: { id: saved.circuitId, version: saved.version, addedVersion: saved.addedVersion },
+			firstDivergence: saved.firstDivergence,
+			lastStep: saved.lastStep,
+			links: { replay: routes.replay(access.team.slug, saved.id), api: routes.api.trace(access.team.slug, saved.id), circuit: routes.circuit(access.team.slug, saved.circuitId) }
+		},
 		{ status: 201 }
 	);
 });

@@ -5,6 +5,7 @@ import { requireTeamRole } from '$lib/server/guard';
 import { formFailure, parseForm } from '$lib/server/forms';
 import { addReportComment, findReport, listReportComments, reportHistory, ReportConflict, updateReport } from '$lib/server/repositories/reports';
 import { listMembers } from '$lib/server/repositories/teams';
+import { eventsOfChange, notifyReportEvent } from '$lib/server/report-mail';
 import { commentSchema } from '$lib/schemas/debugging';
 import { REPORT_STATUSES, SEVERITIES, STATUS_MOVES } from '$lib/debug/reports';
 import { can } from '$lib/permissions';
@@ -36,9 +37,12 @@ const peopleForm = z.object({ assigneeId: optionalPerson, reviewerId: optionalPe
 
 async function apply(locals: App.Locals, params: { slug: string; id: string }, need: 'report.status' | 'report.edit', change: Parameters<typeof updateReport>[4], raw: Record<string, string>) {
 	const access = await requireTeamRole(locals, params.slug, need);
-	if (!(await findReport(db, access.team.id, params.id))) error(404, NOT_FOUND);
+	const before = await findReport(db, access.team.id, params.id);
+	if (!before) error(404, NOT_FOUND);
 	try {
 		const r = await updateReport(db, access.team.id, params.id, access.user.id, change);
+		const after = (await findReport(db, access.team.id, params.id))!;
+		for (const event of eventsOfChange(before, after)) await notifyReportEvent(db, { teamId: access.team.id, team: access.team, actor: access.user, report: after }, event);
 		return { updated: r.changed.length > 0 };
 	} catch (e) {
 		if (e instanceof ReportConflict) return formFailure(e.status, e.message, raw);
@@ -49,10 +53,12 @@ async function apply(locals: App.Locals, params: { slug: string; id: string }, n
 export const actions: Actions = {
 	comment: async ({ locals, params, request }) => {
 		const access = await requireTeamRole(locals, params.slug, 'report.comment');
-		if (!(await findReport(db, access.team.id, params.id))) error(404, NOT_FOUND);
+		const report = await findReport(db, access.team.id, params.id);
+		if (!report) error(404, NOT_FOUND);
 		const form = await parseForm(request, commentSchema);
 		if (!form.ok) return form.failure;
 		await addReportComment(db, access.team.id, params.id, access.user.id, form.data.body);
+		await notifyReportEvent(db, { teamId: access.team.id, team: access.team, actor: access.user, report }, { kind: 'comment', body: form.data.body });
 		return { commented: true };
 	},
 	status: async ({ locals, params, request }) => {

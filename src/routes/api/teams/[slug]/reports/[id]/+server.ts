@@ -5,6 +5,7 @@ import { requireTeamRole } from '$lib/server/guard';
 import { rethrowReportConflict } from '$lib/server/debugging';
 import { deleteReport, findReport, listReportComments, reportHistory, updateReport } from '$lib/server/repositories/reports';
 import { updateReportSchema } from '$lib/schemas/debugging';
+import { eventsOfChange, notifyReportEvent } from '$lib/server/report-mail';
 import { can } from '$lib/permissions';
 import { routes } from '$lib/routes';
 import type { RequestHandler } from './$types';
@@ -23,7 +24,7 @@ export const GET: RequestHandler = apiRoute(async ({ locals, params }) => {
 			reviewer: strip(r.reviewer),
 			comments: await listReportComments(db, r.id),
 			history: await reportHistory(db, team.id, r.id),
-			links: { page: routes.report(team.slug, r.id), replay: routes.replay(team.slug, r.trace.id, r.step, r.id), snapshot: r.snapshot ? routes.api.attachment(team.slug, r.snapshot.id) : null }
+			links: { page: routes.report(team.slug, r.id), replay: routes.replay(team.slug, r.trace.id, r.step, r.id), snapshot: r.snapshot ? routes.api.attachment(team.slug, r.snapshot.id) : null, board: r.board ? routes.api.reportBoard(team.slug, r.id) : null }
 		}
 	});
 });
@@ -37,11 +38,14 @@ export const PATCH: RequestHandler = apiRoute(async ({ locals, params, request }
 	const editsFields = body.assigneeId !== undefined || body.reviewerId !== undefined || body.severity !== undefined;
 	const access = await requireTeamRole(locals, params.slug, body.status && !editsFields ? 'report.status' : 'report.edit');
 	if (body.status && !can(access.role, 'report.status')) error(403, { message: 'Your role in this team does not allow this.', code: 'forbidden' });
-	if (!(await findReport(db, access.team.id, params.id))) error(404, NOT_FOUND);
+	const before = await findReport(db, access.team.id, params.id);
+	if (!before) error(404, NOT_FOUND);
 	try {
 		const r = await updateReport(db, access.team.id, params.id, access.user.id, body);
 		const now = (await findReport(db, access.team.id, params.id))!;
-		return json({ id: params.id, status: now.status, revision: r.revision, changed: r.changed });
+		let mailed = 0;
+		for (const event of eventsOfChange(before, now)) mailed += await notifyReportEvent(db, { teamId: access.team.id, team: access.team, actor: access.user, report: now }, event);
+		return json({ id: params.id, status: now.status, revision: r.revision, changed: r.changed, mailed });
 	} catch (e) {
 		rethrowReportConflict(e);
 	}
