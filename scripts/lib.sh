@@ -4,8 +4,10 @@
 ROOT="$(cd "$(dirname "${BASH_SOURCE[0]}")/.." && pwd)"
 cd "$ROOT"
 
-say() { printf '\033[36morrery\033[0m %s\n' "$*"; }
-die() { printf '\033[31morrery: %s\033[0m\n' "$*" >&2; exit 1; }
+# Colour only on a terminal (and never with NO_COLOR set): logs and CI output stay plain text.
+_tty_colour() { [ -t "$1" ] && [ -z "${NO_COLOR:-}" ] && [ "${TERM:-dumb}" != dumb ]; }
+say() { if _tty_colour 1; then printf '\033[36morrery\033[0m %s\n' "$*"; else printf 'orrery %s\n' "$*"; fi; }
+die() { if _tty_colour 2; then printf '\033[31morrery: %s\033[0m\n' "$*" >&2; else printf 'orrery: %s\n' "$*" >&2; fi; exit 1; }
 
 port_in_use() { (exec 3<>"/dev/tcp/127.0.0.1/$1") 2>/dev/null; }
 

@@ -4,6 +4,10 @@ import { db } from '$lib/server/db';
 import { apiError, codeForStatus } from '$lib/server/errors';
 import { authenticateToken } from '$lib/server/repositories/api-tokens';
 import { limits, TooManyAttempts } from '$lib/server/rate-limit';
+import { installShutdown } from '$lib/server/shutdown';
+
+// Close the DB pool, the mail transport (and whatever else registers) when adapter-node shuts down.
+installShutdown();
 
 const isApiPath = (p: string) => p === '/api' || p.startsWith('/api/');
 

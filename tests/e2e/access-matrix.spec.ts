@@ -1,5 +1,5 @@
 import { expect, test, type APIRequestContext } from '@playwright/test';
-import { formHeaders, freshEmail, newContext, pathOf, signUp, waitForMail } from './support/accounts';
+import { formHeaders, freshEmail, mailTo, newContext, pathOf, signUp, waitForMail } from './support/accounts';
 
 // Every protected action and endpoint of issue 3 against every kind of caller, over HTTP against
 // the built app (hooks, CSRF check, guard, actions and endpoints all in the path). Each cell is
@@ -69,6 +69,26 @@ async function makeSpareMember(): Promise<string> {
 	const me = await (await c.get('/api/me')).json();
 	await c.dispose();
 	return me.user.id;
+}
+
+/** A second team of the owner with the engineer, reviewer and viewer in it (for the account?/leave cells). */
+let second: Promise<string> | null = null;
+function secondTeam(): Promise<string> {
+	second ??= (async () => {
+		const made = await ctx.owner.post('/api/teams', { data: { name: `Matrix Second Lab ${Date.now()}` } });
+		const s2 = (await made.json()).slug as string;
+		for (const a of ['engineer', 'reviewer', 'viewer'] as const) {
+			const me = await (await ctx[a].get('/api/me')).json();
+			const before = (await mailTo(me.user.email)).length;
+			await ctx.owner.post(`/api/teams/${s2}/invitations`, { data: { email: me.user.email, role: a } });
+			let mine = await mailTo(me.user.email);
+			for (let i = 0; i < 60 && mine.length <= before; i++) mine = (await new Promise((r) => setTimeout(r, 150)), await mailTo(me.user.email));
+			const link = mine.at(-1)!.links.find((l) => l.includes('/invite/'))!;
+			expect((await form(ctx[a], `${pathOf(link)}?/accept`)).status()).toBe(303);
+		}
+		return s2;
+	})();
+	return second;
 }
 
 async function tokenOf(a: Actor, role = 'viewer'): Promise<string> {
@@ -141,6 +161,26 @@ const rows: Row[] = [
 		name: 'action tokens?/revoke (own token)',
 		expect: member(200, 200, 200, 0, 0, 0),
 		run: async (a) => (await form(ctx[a], `/teams/${slug}/tokens?/revoke`, { tokenId: await tokenOf(a) })).status()
+	},
+	// The account page (issue 18): a person's own settings; every signed-in person, nobody else.
+	{ name: 'GET /account (page)', expect: member(200, 200, 200, 200, 200, 303), run: async (a) => (await page(ctx[a], '/account')).status() },
+	{ name: 'action account?/name', expect: member(200, 200, 200, 200, 200, 401), run: async (a) => (await form(ctx[a], '/account?/name', { name: `Matrix ${a}` })).status() },
+	{ name: 'action account?/mail', expect: member(200, 200, 200, 200, 200, 401), run: async (a) => (await form(ctx[a], '/account?/mail', { reportMail: 'on' })).status() },
+	{ name: 'action account?/signOutOthers', expect: member(200, 200, 200, 200, 200, 401), run: async (a) => (await form(ctx[a], '/account?/signOutOthers')).status() },
+	{
+		name: 'action account?/password (wrong current password)',
+		expect: member(400, 400, 400, 400, 400, 401),
+		run: async (a) => (await form(ctx[a], '/account?/password', { currentPassword: 'not-my-password', password: 'another-passphrase-1', confirm: 'another-passphrase-1' })).status()
+	},
+	{
+		name: 'action account?/delete (wrong current password)',
+		expect: member(400, 400, 400, 400, 400, 401),
+		run: async (a) => (await form(ctx[a], '/account?/delete', { currentPassword: 'not-my-password', confirm: 'delete my account' })).status()
+	},
+	{
+		name: 'action account?/leave (a second team; the owner is its only owner)',
+		expect: member(409, 200, 200, 200, 404, 401),
+		run: async (a) => (await form(ctx[a], '/account?/leave', { team: await secondTeam() })).status()
 	},
 	// Last: leaving takes the member out. The only owner may not leave.
 	{ name: 'action members?/leave', expect: member(409, 303, 303, 303, 404, 401), run: async (a) => (await form(ctx[a], `/teams/${slug}/members?/leave`)).status() }

@@ -1,5 +1,6 @@
 import nodemailer, { type Transporter } from 'nodemailer';
 import { config } from './config';
+import { onShutdown } from './shutdown';
 import { routes } from '$lib/routes';
 import { ROLE_LABEL, type Role } from '$lib/permissions';
 
@@ -11,6 +12,13 @@ function getTransport(): Transporter {
 	transport ??= nodemailer.createTransport(config.smtpUrl);
 	return transport;
 }
+
+/** Close the SMTP transport (at shutdown); the next send opens a new one. */
+export function closeMail(): void {
+	transport?.close();
+	transport = null;
+}
+onShutdown('mail transport', closeMail);
 
 export type Mail = { to: string; subject: string; text: string; html: string };
 

@@ -70,3 +70,8 @@ export function pathOf(link: string): string {
 	expect(u.origin).toBe(baseURL);
 	return u.pathname + u.search;
 }
+
+/** Every caught message to `address` (oldest first), for counting mails per event. */
+export async function mailTo(address: string): Promise<CaughtMail[]> {
+	return (await readAllMail()).filter((m) => m.to.includes(address));
+}

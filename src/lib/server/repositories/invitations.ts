@@ -18,6 +18,7 @@ export type InvitationRow = {
 	accepted_at: Date | null;
 	accepted_by: string | null;
 	revoked_at: Date | null;
+	superseded_at?: Date | null;
 	created_at: Date;
 };
 
@@ -53,6 +54,7 @@ export async function listPendingInvitations(db: Db, teamId: string, now = new D
 		.where('i.team_id', teamId)
 		.whereNull('i.accepted_at')
 		.whereNull('i.revoked_at')
+		.whereNull('i.superseded_at')
 		.where('i.expires_at', '>', now)
 		.orderBy('i.created_at', 'desc')
 		.select('i.id', 'i.email', 'i.role', 'i.expires_at', 'i.created_at', 'u.name as invited_by_name');
@@ -63,12 +65,56 @@ export async function revokeInvitation(db: Db, teamId: string, invitationId: str
 		.where({ id: invitationId, team_id: teamId })
 		.whereNull('accepted_at')
 		.whereNull('revoked_at')
+		.whereNull('superseded_at')
 		.update({ revoked_at: new Date() });
 	return n > 0;
 }
 
 export type InvitationView = { id: string; email: string; role: Role; teamId: string; teamSlug: string; teamName: string; invitedByName: string | null };
-export type InvitationLookup = { state: 'ok'; invitation: InvitationView } | { state: 'expired' | 'used' | 'revoked' | 'unknown' };
+export type InvitationLookup = { state: 'ok'; invitation: InvitationView } | { state: 'expired' | 'used' | 'revoked' | 'superseded' | 'member' | 'unknown' };
+
+type StateRow = { accepted_at: Date | null; revoked_at: Date | null; superseded_at?: Date | null; expires_at: Date; already_member?: unknown };
+
+/** Why a link no longer works, or 'ok'. A pending link for someone who joined by another one is spent too. */
+function stateOf(row: StateRow | undefined, now: Date): InvitationLookup['state'] {
+	if (!row) return 'unknown';
+	if (row.accepted_at) return 'used';
+	if (row.superseded_at) return 'superseded';
+	if (row.revoked_at) return 'revoked';
+	if (row.already_member) return 'member';
+	if (new Date(row.expires_at).getTime() <= now.getTime()) return 'expired';
+	return 'ok';
+}
+
+/** Is `email` (lowercase) a member of the team? A subquery for the lookups below. */
+const memberOf = (db: Db, teamColumn: string, emailColumn: string) =>
+	db('memberships as mm').join('users as mu', 'mu.id', 'mm.user_id').whereRaw('mm.team_id = ??', [teamColumn]).whereRaw('mu.email = ??', [emailColumn]).select(db.raw('1')).limit(1);
+
+export type PendingDuplicate = { id: string; created_at: Date; expires_at: Date };
+
+/** The pending invitation of `email` to the team, if there is one. */
+export async function findPendingInvitation(db: Db, teamId: string, email: string, now = new Date()): Promise<PendingDuplicate | undefined> {
+	return db('invitations')
+		.where({ team_id: teamId, email: email.toLowerCase() })
+		.whereNull('accepted_at')
+		.whereNull('revoked_at')
+		.whereNull('superseded_at')
+		.where('expires_at', '>', now)
+		.first('id', 'created_at', 'expires_at');
+}
+
+/**
+ * "Send again": the pending invitation is superseded by a fresh one (new link, new seven days),
+ * so there is still exactly one pending row and the old link says it was replaced.
+ */
+export async function renewInvitation(db: Knex, teamId: string, invitationId: string, invitedBy: string, now = new Date()): Promise<{ invitation: InvitationRow; token: string } | null> {
+	return db.transaction(async (trx) => {
+		const row = await trx<InvitationRow>('invitations').where({ id: invitationId, team_id: teamId }).forUpdate().first();
+		if (!row || row.accepted_at || row.revoked_at || row.superseded_at || new Date(row.expires_at) <= now) return null;
+		await trx('invitations').where({ id: row.id }).update({ superseded_at: now });
+		return createInvitation(trx, { teamId, email: row.email, role: row.role, invitedBy }, now);
+	});
+}
 
 /** What a token holder may see about an invitation before accepting it. */
 export async function lookupInvitation(db: Db, token: string, now = new Date()): Promise<InvitationLookup> {
@@ -76,11 +122,9 @@ export async function lookupInvitation(db: Db, token: string, now = new Date()):
 		.join('teams as t', 't.id', 'i.team_id')
 		.leftJoin('users as u', 'u.id', 'i.invited_by')
 		.where('i.token_hash', sha256(token))
-		.first('i.*', 't.slug as team_slug', 't.name as team_name', 'u.name as invited_by_name');
-	if (!row) return { state: 'unknown' };
-	if (row.accepted_at) return { state: 'used' };
-	if (row.revoked_at) return { state: 'revoked' };
-	if (new Date(row.expires_at).getTime() <= now.getTime()) return { state: 'expired' };
+		.first('i.*', 't.slug as team_slug', 't.name as team_name', 'u.name as invited_by_name', db.raw('exists(?) as already_member', [memberOf(db, 'i.team_id', 'i.email')]));
+	const state = stateOf(row, now);
+	if (state !== 'ok') return { state };
 	return {
 		state: 'ok',
 		invitation: { id: row.id, email: row.email, role: row.role, teamId: row.team_id, teamSlug: row.team_slug, teamName: row.team_name, invitedByName: row.invited_by_name }
@@ -89,7 +133,9 @@ export async function lookupInvitation(db: Db, token: string, now = new Date()):
 
 const GONE: Record<string, string> = {
 	unknown: 'This invitation link is not valid.',
-	used: 'This invitation has already been used.',
+	used: 'This invitation has already been used: it worked once, and whoever it was for is in the team now.',
+	superseded: 'This invitation was replaced by a newer one sent to the same address. Use the link in the latest mail.',
+	member: 'You are already a member of this team (you joined with another invitation), so this link is no longer needed.',
 	revoked: 'This invitation was withdrawn by the team.',
 	expired: 'This invitation has expired. Ask the team for a new one.'
 };
@@ -110,7 +156,8 @@ export async function acceptInvitation(
 ): Promise<{ teamSlug: string }> {
 	return db.transaction(async (trx) => {
 		const row = await trx<InvitationRow>('invitations').where({ token_hash: sha256(token) }).forUpdate().first();
-		const state = !row ? 'unknown' : row.accepted_at ? 'used' : row.revoked_at ? 'revoked' : new Date(row.expires_at) <= now ? 'expired' : 'ok';
+		const joined = row ? Boolean(await trx('memberships as m').join('users as u', 'u.id', 'm.user_id').where({ 'm.team_id': row.team_id, 'u.email': row.email }).first('m.user_id')) : false;
+		const state = stateOf(row ? { ...row, already_member: joined } : undefined, now);
 		if (!row || state !== 'ok') error(410, { message: invitationProblem(state as 'unknown'), code: 'gone' });
 		if (row.email !== user.email.toLowerCase()) {
 			error(403, { message: `This invitation was sent to ${row.email}. Sign in with that address to accept it.`, code: 'forbidden' });

@@ -2,7 +2,7 @@ import { error, isHttpError, redirect } from '@sveltejs/kit';
 import { db } from '$lib/server/db';
 import { formFailure, parseForm } from '$lib/server/forms';
 import { requireTeamRole } from '$lib/server/guard';
-import { inviteToTeam } from '$lib/server/team-actions';
+import { inviteToTeam, resendInvitation } from '$lib/server/team-actions';
 import { changeMemberRole, listMembers, removeMember } from '$lib/server/repositories/teams';
 import { listPendingInvitations, revokeInvitation } from '$lib/server/repositories/invitations';
 import { changeRoleSchema, invitationRefSchema, inviteSchema, memberRefSchema } from '$lib/schemas/team';
@@ -47,6 +47,12 @@ export const actions: Actions = {
 		const form = await parseForm(request, inviteSchema);
 		if (!form.ok) return form.failure;
 		return asFormProblem(form.raw, async () => ({ invited: (await inviteToTeam(access, form.data)).email }));
+	},
+	resendInvite: async ({ locals, params, request }) => {
+		const access = await requireTeamRole(locals, params.slug, 'members.manage');
+		const form = await parseForm(request, invitationRefSchema);
+		if (!form.ok) return form.failure;
+		return { resent: (await resendInvitation(access, form.data.invitationId)).email };
 	},
 	revokeInvite: async ({ locals, params, request }) => {
 		const { team } = await requireTeamRole(locals, params.slug, 'members.manage');
