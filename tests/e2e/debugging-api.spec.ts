@@ -88,7 +88,8 @@ test('status moves follow open → confirmed → fixed → verified, each kept i
 	expect((await stale.json()).error.message).toContain('Someone changed this report since you opened it');
 	expect((await patch({ status: 'fixed', revision: 2 }, crew.ctx.engineer)).status()).toBe(200);
 	const done = await patch({ status: 'verified', revision: 3 });
-	expect(await done.json()).toEqual({ id, status: 'verified', revision: 4, changed: ['report.status'] });
+	// The report's author (the engineer) is mailed about the reviewer's move (issue 18).
+	expect(await done.json()).toEqual({ id, status: 'verified', revision: 4, changed: ['report.status'], mailed: 1 });
 
 	const r = (await (await crew.ctx.viewer.get(`/api/teams/${crew.slug}/reports/${id}`)).json()).report;
 	expect(r.history.map((h: { action: string; detail: { to?: string } }) => `${h.action}:${h.detail.to ?? ''}`)).toEqual(['report.create:', 'report.status:confirmed', 'report.status:fixed', 'report.status:verified']);
@@ -145,7 +146,7 @@ test('orrery push uploads a failing circuit as a trace and opens a report at its
 	const file = join(dir, 'adder.json');
 	await writeFile(file, JSON.stringify(faultyAdder(`CI adder ${Date.now()}`)));
 	const run = await new Promise<{ code: number; stdout: string; stderr: string }>((resolve) =>
-		execFile(process.execPath, ['--import', 'tsx', 'src/cli/push.ts', file, '--spec', 'b = b + c*a mod 16', '--input', 'c=1,a=2', '--server', baseURL, '--token', token, '--json'], (err, stdout, stderr) =>
+		execFile(process.execPath, ['--import', 'tsx', 'src/cli/push.ts', file, '--new', `CI adder ${Date.now()}`, '--spec', 'b = b + c*a mod 16', '--input', 'c=1,a=2', '--server', baseURL, '--token', token, '--json'], (err, stdout, stderr) =>
 			resolve({ code: err ? Number((err as { code?: number }).code ?? 2) : 0, stdout, stderr })
 		)
 	);

@@ -34,7 +34,7 @@ function push(token: string, args: string[]): Promise<PushResult> {
 		child.stdout.on('data', (d) => (out += d));
 		child.stderr.on('data', (d) => (err += d));
 		child.on('close', (code) => {
-			let json: Record<string, unknown> | null = null;
+			let json: Record<string, unknown> | null;
 			try {
 				json = JSON.parse(out);
 			} catch {

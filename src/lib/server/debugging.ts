@@ -50,6 +50,8 @@ async function resolveVersion(access: TeamAccess, body: CreateTrace) {
 	if (!can(access.role, 'circuit.edit')) error(403, { message: 'Your role in this team does not allow this.', code: 'forbidden' });
 	const circuit = await findCircuit(db, access.team.id, body.circuitId);
 	if (!circuit) error(404, { message: 'No such circuit in this team.', code: 'not_found' });
+	// A pushed file keeps the circuit's title (an imported QASM file's title is only its file name).
+	doc.title = circuit.title;
 	const latest = (await findVersion(db, circuit.id, circuit.latest_version))!;
 	// The same document as the latest version: nothing to add, the trace refers to it.
 	if (latest.hash === sha256(serializeCircuitDocument(doc))) return { circuit, version: latest, added: false };

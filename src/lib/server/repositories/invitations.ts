@@ -133,7 +133,7 @@ export async function lookupInvitation(db: Db, token: string, now = new Date()):
 
 const GONE: Record<string, string> = {
 	unknown: 'This invitation link is not valid.',
-	used: 'This invitation has already been used: it worked once, and whoever it was for is in the team now.',
+	used: 'This invitation has already been used. It works once, and whoever it was for has joined the team.',
 	superseded: 'This invitation was replaced by a newer one sent to the same address. Use the link in the latest mail.',
 	member: 'You are already a member of this team (you joined with another invitation), so this link is no longer needed.',
 	revoked: 'This invitation was withdrawn by the team.',
