@@ -11,7 +11,7 @@ import { insertTrace } from '../../src/lib/server/repositories/traces';
 import { createReport, findReport, reportPeople } from '../../src/lib/server/repositories/reports';
 import { computeTraceSummary } from '../../src/lib/server/trace-compute';
 import { notifyReportEvent, recipientsFor } from '../../src/lib/server/report-mail';
-import { plantedFaultAdder } from '../../src/lib/components/workbench/templates';
+import { plantedFaultAdder } from '../../src/lib/quantum/templates';
 
 // Issue 18 against the real throwaway MariaDB and the mail fake that npm test starts: invitation
 // states (one pending row, superseded, already a member), report mail recipients and the mail

@@ -6,7 +6,7 @@ import { parseInputValue } from '$lib/worker/inputs';
 import { describeGate, prepareIntents, toFrameView } from '$lib/worker/engine';
 import { gateAt, gateProvenance, type LoweredCircuit } from '$lib/quantum/circuit';
 import { formatTurns } from '$lib/quantum/angle';
-import { renderDialBoardSvg } from '$lib/components/dials/dial-svg';
+import { renderDialBoardSvg } from '$lib/dials/dial-svg';
 import type { TraceSummaryInput } from '$lib/schemas/debugging';
 import type { LedgerExcerpt } from '$lib/debug/types';
 
