@@ -64,7 +64,8 @@ test.beforeAll(async () => {
 test.afterAll(async () => engineer?.dispose());
 
 test('push names its target: --new makes a circuit, --circuit with a stale --base is refused naming both versions, --force adds on top', async () => {
-	test.setTimeout(120_000);
+	// Six runs of the command line, each starting tsx (about 6 s of CPU, several times that on a busy machine).
+	test.setTimeout(480_000);
 	const title = `Pushed adder ${Date.now()}`;
 	const fixed = file('adder3.qasm', fixture);
 	const first = await push(token, [fixed, '--new', title, '--spec', 'b = a + b mod 8', '--json']);
@@ -104,7 +105,7 @@ test('push names its target: --new makes a circuit, --circuit with a stale --bas
 });
 
 test('a failing push: the trace carries the divergence the server recomputed; the report opens there with a server-drawn board and the ledger', async () => {
-	test.setTimeout(120_000);
+	test.setTimeout(240_000);
 	const r = await push(token, [file('adder3-faulty.qasm', faultyText), '--new', `Faulty pushed adder ${Date.now()}`, '--spec', 'b = a + b mod 8', '--json']);
 	expect(r.code).toBe(1);
 	const trace = r.json!.trace as { id: string; firstDivergence: { step: number; label: string } };
@@ -149,7 +150,7 @@ async function hydrated(page: Page) {
 }
 
 test('end to end: the engineer pushes a failing file; the reviewer gets the mail, opens the report at the divergence with its picture, comments; the engineer gets the mail', async ({ browser }) => {
-	test.setTimeout(180_000);
+	test.setTimeout(300_000);
 	const title = `CI: pushed adder fails ${Date.now()}`;
 	const r = await push(token, [file('adder3-ci.qasm', faultyText), '--new', `CI adder ${Date.now()}`, '--spec', 'b = a + b mod 8', '--title', title, '--reviewer', demo.reviewer.email]);
 	expect(r.code).toBe(1);
