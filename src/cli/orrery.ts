@@ -116,6 +116,9 @@ const fmt = (o: Record<string, string>) => Object.entries(o).map(([k, v]) => `${
 
 function printRun(r: RunReport, io: Io): void {
 	const lines = [`engine: ${r.engine}; after ${r.step} of ${r.gateCount} gates (simulated, not a hardware run)`];
+	if (r.handoverReason) lines.push(`  handed over to the amplitude engine at gate ${r.handedOverAt}: ${r.handoverReason}`);
+	if (r.nearClassical)
+		lines.push(`  note: ${r.nearClassical.count} H gate${r.nearClassical.count === 1 ? '' : 's'} read an inexact phase within 1e-6 turn of 0 or ½ as a classical bit (probability dropped ≤ ${r.nearClassical.droppedProbability.toExponential(1)})`);
 	for (const reg of r.registers) lines.push(`  ${reg.name} = ${reg.values.map((v) => `${v.value} (p=${v.probability.toPrecision(6)})`).join(', ')}`);
 	for (const q of r.frames) lines.push(`  ${q.qubit}: ${q.text}`);
 	io.out(lines.join('\n'));

@@ -7,7 +7,8 @@
  *
  * Each qubit is `classical` (bit), `fourier` (|0⟩ + e^{2πiφ}|1⟩, φ exact unless an inexact angle
  * touched it) or `pure` (a general single-qubit state α|0⟩ + β|1⟩ in floats). Rules:
- * - h: classical b → fourier φ = b/2; fourier with φ ∈ {0, ½} exactly → classical; any other
+ * - h: classical b → fourier φ = b/2; fourier with φ ∈ {0, ½} exactly → classical (an inexact φ
+ *   within 1e-6 turn of 0 or ½ too, with the dropped probability recorded); any other
  *   fourier → pure; pure → pure.
  * - x / cx / ccx / mcx with classical controls act classically (x on fourier: φ → −φ and a
  *   global phase φ). One superposed control is allowed only when the target is fourier with
@@ -90,7 +91,22 @@ export interface LedgerState {
 	amp: Float64Array;
 	globalPhase: bigint;
 	globalExtra: number;
+	/**
+	 * Probability dropped so far by reading an inexact Fourier qubit whose phase is within
+	 * {@link NEAR_CLASSICAL_TURNS} of 0 or ½ as classical at an H (sin²(π·δ) each). 0 when every
+	 * angle was exact.
+	 */
+	dropped: number;
+	/** How many H gates did so. */
+	nearCollapses: number;
 }
+
+/**
+ * An inexact Fourier qubit whose phase lies within this many turns of 0 or ½ is read as a classical
+ * bit at an H (dropping probability sin²(π·δ) ≤ 1e-11, recorded in `dropped`), so float angles
+ * alone never force the amplitude engine.
+ */
+export const NEAR_CLASSICAL_TURNS = 1e-6;
 
 /** Grow-only contribution log (struct of arrays). */
 export interface ContributionLog {
@@ -115,7 +131,9 @@ export function createLedgerState(qubitCount: number, bits?: ArrayLike<number>):
 		inexact: new Uint8Array(qubitCount),
 		amp: new Float64Array(4 * qubitCount),
 		globalPhase: 0n,
-		globalExtra: 0
+		globalExtra: 0,
+		dropped: 0,
+		nearCollapses: 0
 	};
 	if (bits) for (let q = 0; q < qubitCount; q++) s.bit[q] = bits[q] ? 1 : 0;
 	return s;
@@ -132,7 +150,9 @@ export function cloneLedgerState(s: LedgerState): LedgerState {
 		inexact: s.inexact.slice(),
 		amp: s.amp.slice(),
 		globalPhase: s.globalPhase,
-		globalExtra: s.globalExtra
+		globalExtra: s.globalExtra,
+		dropped: s.dropped,
+		nearCollapses: s.nearCollapses
 	};
 }
 
@@ -164,6 +184,14 @@ function logPush(log: ContributionLog, gate: number, qubit: number, kind: number
 const TAU = 2 * Math.PI;
 
 /** Current phase of a fourier qubit in float turns. */
+/** 0 or 1 when φ (turns) is within {@link NEAR_CLASSICAL_TURNS} of 0 or ½ (mod 1), else −1. */
+function nearClassical(phi: number): number {
+	const x = phi - Math.floor(phi);
+	if (x <= NEAR_CLASSICAL_TURNS || 1 - x <= NEAR_CLASSICAL_TURNS) return 0;
+	if (Math.abs(x - 0.5) <= NEAR_CLASSICAL_TURNS) return 1;
+	return -1;
+}
+
 function phaseTurns(s: LedgerState, t: LedgerTables, q: number): number {
 	return Number(s.phase[q]) / 2 ** t.exp + s.extra[q];
 }
@@ -268,6 +296,20 @@ export function applyLedgerGate(s: LedgerState, c: LoweredCircuit, t: LedgerTabl
 			} else if (k === LedgerKind.fourier && s.inexact[q] === 0 && (s.phase[q] === 0n || s.phase[q] === t.half)) {
 				s.kind[q] = LedgerKind.classical;
 				s.bit[q] = s.phase[q] === 0n ? 0 : 1;
+				if (log) logPush(log, g, q, ContributionKind.collapse);
+			} else if (k === LedgerKind.fourier && s.inexact[q] !== 0 && nearClassical(phaseTurns(s, t, q)) >= 0) {
+				// Float angles that should have cancelled: |0⟩ + e^{2πi(b/2+δ)}|1⟩ → |b⟩ up to sin²(πδ).
+				const f = phaseTurns(s, t, q);
+				const b = nearClassical(f);
+				const d = f - Math.round(f * 2) / 2;
+				s.kind[q] = LedgerKind.classical;
+				s.bit[q] = b;
+				s.inexact[q] = 0;
+				s.extra[q] = 0;
+				s.dropped += Math.sin(Math.PI * d) ** 2;
+				// The kept amplitude is e^{iπδ}·cos(πδ): a global phase of δ/2 turn.
+				s.globalExtra += d / 2;
+				s.nearCollapses++;
 				if (log) logPush(log, g, q, ContributionKind.collapse);
 			} else {
 				if (k === LedgerKind.fourier && log) logPush(log, g, q, ContributionKind.leave);
@@ -381,7 +423,8 @@ export function applyLedgerGate(s: LedgerState, c: LoweredCircuit, t: LedgerTabl
 export function entanglingReason(s: LedgerState, c: LoweredCircuit, g: number): string {
 	const qs: number[] = [];
 	for (let i = c.qubitStart[g]; i < c.qubitStart[g + 1]; i++) if (s.kind[c.qubitList[i]] !== LedgerKind.classical) qs.push(c.qubitList[i]);
-	return `gate ${g} acts on ${qs.length} qubits in superposition (q${qs.join(', q')}) and would entangle them`;
+	const src = c.itemSources[c.itemOf[g]];
+	return `gate ${g}${src ? ` (line ${src.line})` : ''} acts on ${qs.length} qubits in superposition (q${qs.join(', q')}) and would entangle them`;
 }
 
 /** Exact phase φ of a fourier qubit as an {@link Angle} in turns (inexact if a float angle touched it). */

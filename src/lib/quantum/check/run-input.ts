@@ -3,7 +3,7 @@
  * and every qubit's frame. Ledger first (exact); when a gate would entangle, or on request, the
  * amplitude engine. Qubit order: flat qubit = register offset + index (index 0 = LSB); phases in turns.
  */
-import { applyLedgerGate, buildLedgerTables, createLedgerState, LedgerKind, ledgerPhase, ledgerToAmplitudes } from '../ledger.js';
+import { applyLedgerGate, buildLedgerTables, createLedgerState, entanglingReason, LedgerKind, ledgerPhase, ledgerToAmplitudes } from '../ledger.js';
 import { applyLoweredGates, blochVector, buildGateTables, registerDistribution, AMPLITUDE_QUBIT_LIMITS } from '../amplitudes.js';
 import { formatTurns } from '../angle.js';
 import type { LoweredCircuit } from '../circuit.js';
@@ -26,6 +26,10 @@ export interface RunReport {
 	step: number;
 	gateCount: number;
 	handedOverAt: number | null;
+	/** Why the ledger handed over (the gate, its line and the qubits it would entangle). */
+	handoverReason?: string;
+	/** Ledger only: H gates that read an inexact phase within 1e-6 turn of 0 or ½ as classical, and the probability dropped. */
+	nearClassical?: { count: number; droppedProbability: number };
 	registers: { name: string; values: { value: string; probability: number }[] }[];
 	frames: QubitReadout[];
 }
@@ -66,7 +70,8 @@ export function runBasisInput(c: LoweredCircuit, values: Map<string, bigint>, op
 			}
 		}
 		const registers = c.registers.map((r) => ({ name: r.name, values: productDistribution(p1.subarray(r.offset, r.offset + r.size)) }));
-		return { engine: 'ledger', step, gateCount: c.gateCount, handedOverAt: null, registers, frames };
+		const near = ls.nearCollapses ? { nearClassical: { count: ls.nearCollapses, droppedProbability: ls.dropped } } : {};
+		return { engine: 'ledger', step, gateCount: c.gateCount, handedOverAt: null, ...near, registers, frames };
 	}
 	const sv = ledgerToAmplitudes(ls, lt, maxQ);
 	applyLoweredGates(sv, c, buildGateTables(c), g, step);
@@ -94,7 +99,8 @@ export function runBasisInput(c: LoweredCircuit, values: Map<string, bigint>, op
 		vals.sort((x, y) => y.probability - x.probability);
 		return { name: r.name, values: vals.slice(0, 16) };
 	});
-	return { engine: 'amplitudes', step, gateCount: c.gateCount, handedOverAt: opts.engine === 'ledger' ? g : null, registers, frames };
+	const why = opts.engine === 'ledger' ? { handoverReason: entanglingReason(ls, c, g) } : {};
+	return { engine: 'amplitudes', step, gateCount: c.gateCount, handedOverAt: opts.engine === 'ledger' ? g : null, ...why, registers, frames };
 }
 
 /** Most likely values of independent bits (up to 16 values, probabilities as products). */
