@@ -1171,7 +1171,9 @@ class Reader {
 			const ops = this.expand(call, params, qs, origin, 0, this.consts);
 			for (const o of ops) this.emit(o, call);
 		}
-		if (width > 1) this.compactBroadcast(call, start, call.qargs.find((q) => !q.index && this.regByName.get(q.name)!.size > 1)!.name);
+		// Only a broadcast over a whole declared register is compacted (not over an alias or a slice).
+		const whole = call.qargs.find((q) => !q.index && !this.aliases.has(q.name) && (this.regByName.get(q.name)?.size ?? 0) > 1);
+		if (width > 1 && whole) this.compactBroadcast(call, start, whole.name);
 	}
 
 	private expand(call: GateCall, params: Num[], qs: number[], origin: GateOrigin, depth: number, _scope: NumScope): Op[] {

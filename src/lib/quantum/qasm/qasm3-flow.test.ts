@@ -101,3 +101,9 @@ describe('OpenQASM 2 names common exporters write', () => {
 		expect(distanceUpToPhase(a, b)).toBeGreaterThan(0.1); // not the same gate
 	});
 });
+
+describe('broadcast over an alias', () => {
+	it('h over a let alias is three gates on the aliased qubits (no crash, no compaction)', () => {
+		expect(sig('qubit[4] q;\nlet x = q[1:3];\nh x;')).toEqual(['h x[0]', 'h x[1]', 'h x[2]']);
+	});
+});

@@ -60,3 +60,14 @@ describe('applyRegisterMap', () => {
 		expect(r.document.body).toEqual(doc.body);
 	});
 });
+
+describe('with the importer’s compact broadcasts', () => {
+	it('relabels the gates inside a broadcast block too (h q; then a map that reverses q)', () => {
+		const d = importQasm('OPENQASM 2.0;\ninclude "qelib1.inc";\nqreg q[3];\nh q;\ncx q[0],q[2];\n').document;
+		expect(d.body[0].type).toBe('call');
+		const r = applyRegisterMap(d, [parseRegisterMapEntry('x=q[2:-1:0]')]);
+		expect(r.document.body[0]).toEqual(d.body[0]);
+		expect((r.document.blocks![0].body as GateItem[]).map((g) => `${g.qubits[0].register}[${g.qubits[0].index}]`)).toEqual(['x[2]', 'x[1]', 'x[0]']);
+		expect((r.document.body[1] as GateItem).qubits).toEqual([{ register: 'x', index: 2 }, { register: 'x', index: 0 }]);
+	});
+});

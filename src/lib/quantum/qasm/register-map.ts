@@ -145,13 +145,25 @@ export function applyRegisterMap(doc: CircuitDocument, entries: readonly Registe
 		if (!o) throw new RegisterMapError(-1, `${where}: qubit ${q.register}[${q.index}] is not in the file's registers`);
 		return { ...o.to };
 	};
+	// Gate items are relabelled; calls of parameterless blocks (the importer's compact broadcasts)
+	// stay, and those blocks' gates are relabelled the same way.
 	const body: BodyItem[] = doc.body.map((item, k) => {
 		if (item.type === 'gate') return { ...item, qubits: item.qubits.map((q) => mapRef(q, `body[${k}]`)) };
+		if (item.type === 'call' && Object.keys(item.args).length === 0) return item;
 		throw new RegisterMapError(-1, `body[${k}] is a ${item.type} block; register maps apply to gate lists read from OpenQASM files`);
 	});
-	if (doc.blocks?.length) throw new RegisterMapError(-1, 'the document has user blocks; register maps apply to gate lists read from OpenQASM files');
+	const blocks = doc.blocks?.map((b) => {
+		if (b.params.length) throw new RegisterMapError(-1, `block ${b.name} has parameters; register maps apply to gate lists read from OpenQASM files`);
+		return {
+			...b,
+			body: b.body.map((item, k) => {
+				if (item.type !== 'gate') throw new RegisterMapError(-1, `block ${b.name} body[${k}] is a ${item.type} block; register maps apply to gate lists read from OpenQASM files`);
+				return { ...item, qubits: item.qubits.map((q) => mapRef(q, `block ${b.name} body[${k}]`)) };
+			})
+		};
+	});
 	return {
-		document: { ...doc, registers: newRegs, body, registerMap: entries.map((e) => ({ name: e.name, qubits: e.qubits })) },
+		document: { ...doc, registers: newRegs, body, ...(blocks ? { blocks } : {}), registerMap: entries.map((e) => ({ name: e.name, qubits: e.qubits })) },
 		notes
 	};
 }
