@@ -3,6 +3,8 @@ source "$ROOT/scripts/legacy-names.sh"
 export ORRERY_DATA_DIR="${ORRERY_DATA_DIR:-$ROOT/.data}"
 export ORRERY_DB_PORT="${ORRERY_DB_PORT:-3317}"
 export ORRERY_SMTP_PORT="${ORRERY_SMTP_PORT:-2525}"
+export ORRERY_REDIS_PORT="${ORRERY_REDIS_PORT:-6390}"
+export ORRERY_REDIS_URL="${ORRERY_REDIS_URL:-redis://127.0.0.1:$ORRERY_REDIS_PORT}"
 export DB_HOST=127.0.0.1
 export DB_PORT="$ORRERY_DB_PORT"
 export DB_NAME="${DB_NAME:-orrery}"

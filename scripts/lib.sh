@@ -21,6 +21,7 @@ free_port_from() {
 ensure_system_packages() {
 	local want=()
 	command -v mariadbd >/dev/null 2>&1 || [ -x /usr/sbin/mariadbd ] || want+=(mariadb-server mariadb-client)
+	command -v redis-server >/dev/null 2>&1 || [ -x /usr/bin/redis-server ] || want+=(redis-server)
 	if [ "${1:-}" = "--with-browser" ]; then
 		command -v chromium >/dev/null 2>&1 || want+=(chromium)
 	fi
@@ -133,5 +134,68 @@ mail_stop() {
 	local pidf=$1
 	[ -f "$pidf" ] || return 0
 	kill "$(cat "$pidf")" 2>/dev/null
+	rm -f "$pidf"
+}
+
+# redis_start DIR PORT [extra redis-server flags...]
+# A private Redis on loopback as a plain process (no service manager). Idempotent: an instance
+# already answering on that port with this pid file is left alone.
+redis_start() {
+	local dir=$1 port=$2; shift 2
+	local pidf="$dir/redis.pid" log="$dir/redis.log"
+	mkdir -p "$dir"
+	if [ -f "$pidf" ] && kill -0 "$(cat "$pidf")" 2>/dev/null && redis-cli -p "$port" ping >/dev/null 2>&1; then
+		return 0
+	fi
+	if port_in_use "$port"; then
+		die "port $port is taken by another program, so Redis cannot listen there. Stop that program or pick another port: ORRERY_REDIS_PORT=6391 npm start"
+	fi
+	setsid redis-server --port "$port" --bind 127.0.0.1 --dir "$dir" --daemonize no \
+		--pidfile "$pidf" --logfile "$log" --save '' --appendonly yes "$@" </dev/null >/dev/null 2>&1 &
+	echo $! >"$pidf"
+	local i
+	for i in $(seq 1 100); do
+		redis-cli -p "$port" ping >/dev/null 2>&1 && return 0
+		sleep 0.1
+	done
+	tail -n 20 "$log" >&2 2>/dev/null
+	die "Redis did not start on 127.0.0.1:$port (its log is above)"
+}
+
+redis_stop() {
+	local dir=$1 pidf="$1/redis.pid"
+	[ -f "$pidf" ] || return 0
+	local pid; pid=$(cat "$pidf" 2>/dev/null)
+	if [ -n "$pid" ] && kill -0 "$pid" 2>/dev/null; then
+		kill "$pid" 2>/dev/null
+		local i
+		for i in $(seq 1 50); do
+			local st; st=$(ps -o stat= -p "$pid" 2>/dev/null)
+			[ -z "$st" ] || [[ "$st" == Z* ]] && break
+			sleep 0.1
+		done
+	fi
+	rm -f "$pidf"
+}
+
+# worker_start PIDFILE LOG: one check worker in the background (npm run worker runs one in the foreground).
+worker_start() {
+	local pidf=$1 log=$2
+	if [ -f "$pidf" ] && kill -0 "$(cat "$pidf")" 2>/dev/null; then return 0; fi
+	setsid node --import tsx scripts/check-worker.ts </dev/null >"$log" 2>&1 &
+	echo $! >"$pidf"
+}
+
+worker_stop() {
+	local pidf=$1
+	[ -f "$pidf" ] || return 0
+	local pid; pid=$(cat "$pidf" 2>/dev/null)
+	if [ -n "$pid" ] && kill -0 "$pid" 2>/dev/null; then
+		kill "$pid" 2>/dev/null
+		local i
+		# A worker finishes its current chunk of inputs and closes (at most a few seconds).
+		for i in $(seq 1 100); do kill -0 "$pid" 2>/dev/null || break; sleep 0.1; done
+		kill -9 "$pid" 2>/dev/null
+	fi
 	rm -f "$pidf"
 }

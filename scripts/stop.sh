@@ -2,4 +2,4 @@
 set -euo pipefail
 source "$(dirname "$0")/lib.sh"
 bash scripts/services.sh down
-say "stopped MariaDB and the mail fake (data kept in .data/)"
+say "stopped the check worker, MariaDB, Redis and the mail fake (data kept in .data/)"

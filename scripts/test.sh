@@ -21,6 +21,8 @@ T="/dev/shm/orrery-test-$$"
 mkdir -p "$T"
 export ORRERY_DB_PORT; ORRERY_DB_PORT=$(free_port_from "${ORRERY_TEST_DB_PORT:-3417}")
 export ORRERY_SMTP_PORT; ORRERY_SMTP_PORT=$(free_port_from "${ORRERY_TEST_SMTP_PORT:-2625}")
+export ORRERY_REDIS_PORT; ORRERY_REDIS_PORT=$(free_port_from "${ORRERY_TEST_REDIS_PORT:-6490}")
+export ORRERY_REDIS_URL="redis://127.0.0.1:$ORRERY_REDIS_PORT"
 export E2E_PORT; E2E_PORT=$(free_port_from "${ORRERY_TEST_APP_PORT:-4173}")
 export DB_HOST=127.0.0.1 DB_PORT=$ORRERY_DB_PORT DB_NAME=orrery_test DB_USER=orrery DB_PASSWORD=orrery-test
 export SMTP_URL="smtp://127.0.0.1:$ORRERY_SMTP_PORT" MAIL_DIR="$T/mail" ORRERY_DEV_OUTBOX=1
@@ -30,16 +32,20 @@ export ORIGIN="http://127.0.0.1:$E2E_PORT"
 export BODY_SIZE_LIMIT=8M
 
 cleanup() {
+	worker_stop "$T/worker.pid"
+	redis_stop "$T/redis"
 	mail_stop "$T/mail-fake.pid"
 	db_stop "$T/mariadb"
 	rm -rf "$T"
 }
 trap cleanup EXIT
 
-say "throwaway MariaDB on 127.0.0.1:$ORRERY_DB_PORT, mail fake on :$ORRERY_SMTP_PORT, under $T"
+say "throwaway MariaDB on 127.0.0.1:$ORRERY_DB_PORT, Redis on :$ORRERY_REDIS_PORT, mail fake on :$ORRERY_SMTP_PORT, under $T"
 db_start "$T/mariadb" "$ORRERY_DB_PORT" --innodb-flush-log-at-trx-commit=0 --innodb-doublewrite=0 --skip-log-bin
 db_provision "$T/mariadb" "$DB_NAME" "$DB_USER" "$DB_PASSWORD"
 mail_start "$T/mail" "$ORRERY_SMTP_PORT" "$T/mail-fake.pid"
+# Throwaway Redis: no persistence at all.
+redis_start "$T/redis" "$ORRERY_REDIS_PORT" --appendonly no
 
 STEPS="$T/steps.txt"; : >"$STEPS"
 step() { # step NAME command...
@@ -59,6 +65,8 @@ if [ "$SUBSET" -eq 0 ] || [ ${#E2E_ONLY[@]} -gt 0 ]; then step build npx vite bu
 say "── playwright"
 if grep -q "build ok" "$STEPS" && { [ "$SUBSET" -eq 0 ] || [ ${#E2E_ONLY[@]} -gt 0 ]; }; then
 	node --import tsx scripts/migrate.ts seed >/dev/null
+	# The end-to-end tests need checks to run: one worker, started after vitest (whose queue tests run their own).
+	worker_start "$T/worker.pid" "$T/worker.log"
 	ORRERY_JSON_REPORT="$T/playwright.json" npx playwright test ${E2E_ONLY[@]+"${E2E_ONLY[@]}"}
 else
 	say "skipping Playwright (build failed or not asked for)"

@@ -5,16 +5,16 @@ import { ACTIONS, atLeast, can, grantableTokenRoles, minRole, ROLES, type Action
 // reports | members"), written out cell by cell so a change to permissions.ts must change this too.
 const TABLE: Record<Role, Action[]> = {
 	owner: [
-		'team.view', 'members.view', 'members.manage', 'circuit.view', 'circuit.edit', 'trace.replay', 'trace.create', 'trace.delete',
+		'team.view', 'members.view', 'members.manage', 'circuit.view', 'circuit.edit', 'check.view', 'check.run', 'check.cancel', 'trace.replay', 'trace.create', 'trace.delete',
 		'breakpoint.create', 'breakpoint.delete', 'breakpoint.annotate', 'report.view', 'report.create', 'report.edit', 'report.comment',
 		'report.status', 'report.delete', 'token.create', 'token.revoke_any'
 	],
 	engineer: [
-		'team.view', 'members.view', 'circuit.view', 'circuit.edit', 'trace.replay', 'trace.create', 'breakpoint.create',
+		'team.view', 'members.view', 'circuit.view', 'circuit.edit', 'check.view', 'check.run', 'check.cancel', 'trace.replay', 'trace.create', 'breakpoint.create',
 		'breakpoint.annotate', 'report.view', 'report.create', 'report.edit', 'report.comment', 'report.status', 'token.create'
 	],
-	reviewer: ['team.view', 'members.view', 'circuit.view', 'trace.replay', 'breakpoint.annotate', 'report.view', 'report.comment', 'report.status', 'token.create'],
-	viewer: ['team.view', 'members.view', 'circuit.view', 'trace.replay', 'report.view']
+	reviewer: ['team.view', 'members.view', 'circuit.view', 'check.view', 'trace.replay', 'breakpoint.annotate', 'report.view', 'report.comment', 'report.status', 'token.create'],
+	viewer: ['team.view', 'members.view', 'circuit.view', 'check.view', 'trace.replay', 'report.view']
 };
 
 describe('permissions', () => {

@@ -20,6 +20,10 @@ const RIGHTS = {
 	'members.manage': ['owner'],
 	'circuit.view': ['owner', 'engineer', 'reviewer', 'viewer'],
 	'circuit.edit': ['owner', 'engineer'],
+	/** Server checks: everyone reads verdicts and progress; those who edit circuits queue and cancel them. */
+	'check.view': ['owner', 'engineer', 'reviewer', 'viewer'],
+	'check.run': ['owner', 'engineer'],
+	'check.cancel': ['owner', 'engineer'],
 	'trace.replay': ['owner', 'engineer', 'reviewer', 'viewer'],
 	'trace.create': ['owner', 'engineer'],
 	'trace.delete': ['owner'],

@@ -32,7 +32,10 @@ export const routes = {
 	devOutbox: () => '/dev/outbox',
 	api: {
 		circuitExport: (slug: string, id: string, version?: number) => `/api/teams/${enc(slug)}/circuits/${enc(id)}/export${version ? `?version=${version}` : ''}`,
+		circuits: (slug: string) => `/api/teams/${enc(slug)}/circuits`,
 		circuitChecks: (slug: string, id: string) => `/api/teams/${enc(slug)}/circuits/${enc(id)}/checks`,
+		check: (slug: string, id: string) => `/api/teams/${enc(slug)}/checks/${enc(id)}`,
+		checkCancel: (slug: string, id: string) => `/api/teams/${enc(slug)}/checks/${enc(id)}/cancel`,
 		me: () => '/api/me',
 		teams: () => '/api/teams',
 		teamMembers: (slug: string) => `/api/teams/${enc(slug)}/members`,

@@ -31,10 +31,10 @@ test('landing page uses the bundled fonts and never leaves 127.0.0.1', async ({ 
 	expect(outside).toEqual([]);
 });
 
-test('health endpoint reports the database up', async ({ request }) => {
+test('health endpoint reports the database and the queue up', async ({ request }) => {
 	const res = await request.get('/api/health');
 	expect(res.status()).toBe(200);
-	expect(await res.json()).toEqual({ ok: true, db: 'up' });
+	expect(await res.json()).toEqual({ ok: true, db: 'up', queue: 'up' });
 });
 
 test('unknown pages get our error page', async ({ page }) => {

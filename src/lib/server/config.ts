@@ -32,6 +32,24 @@ export const config = {
 	mailDir: read('MAIL_DIR', '.data/mail'),
 	origin: read('ORIGIN', 'http://127.0.0.1:3000'),
 	production: read('NODE_ENV', 'development') === 'production',
+	/** One Redis for the check queue and the shared rate limits (every app process and worker uses the same). */
+	redisUrl: read('ORRERY_REDIS_URL', 'redis://127.0.0.1:6390'),
+	checks: {
+		/** Key prefix of the queues in Redis (tests give each run its own). */
+		queuePrefix: read('ORRERY_QUEUE_PREFIX', 'orrery'),
+		/** Checks of one team running at once; more wait in the queue. */
+		teamConcurrency: Number(read('ORRERY_CHECK_TEAM_CONCURRENCY', '2')),
+		/** Jobs one worker process runs at once (each is synchronous compute: 1 per core is right). */
+		workerConcurrency: Number(read('ORRERY_WORKER_CONCURRENCY', '1')),
+		/** Largest exhaustive sweep, in input bits; wider domains get the proof and a seeded sample. */
+		maxSweepBits: Number(read('ORRERY_CHECK_MAX_SWEEP_BITS', '24')),
+		/** Inputs per shard of a sharded sweep (domains up to this size run as one job). */
+		shardInputs: Number(read('ORRERY_CHECK_SHARD_INPUTS', '65536')),
+		/** Wall-clock limit of one check, in seconds; past it the check stops with a message. */
+		maxSeconds: Number(read('ORRERY_CHECK_MAX_SECONDS', '900')),
+		/** How long a worker's lock on a job lasts without renewal; a dead worker's job is retried after about this long. */
+		lockMs: Number(read('ORRERY_WORKER_LOCK_MS', '30000'))
+	},
 	/** Serves /bench/* pages for `npm run bench` (never set in production). */
 	benchPages: read('ORRERY_BENCH_PAGES', '0') === '1'
 };

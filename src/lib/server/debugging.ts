@@ -8,6 +8,7 @@ import { createCircuit, findCircuit, findVersion, saveVersion, StaleVersionError
 import { findTrace, insertTrace } from './repositories/traces';
 import { createReport, findReport, ReportConflict, setReportBoard } from './repositories/reports';
 import { notifyReportOpened } from './report-mail';
+import { enqueueIfSpecified } from './checks/enqueue';
 import { listBreakpoints } from './repositories/breakpoints';
 import { listMembers } from './repositories/teams';
 import { can } from '$lib/permissions';
@@ -87,6 +88,8 @@ export type SavedTrace = {
 /** Save a trace; returns its id, its version, whether the server computed the summary, and its first divergence. */
 export async function saveTrace(access: TeamAccess, body: CreateTrace): Promise<SavedTrace> {
 	const { circuit, version, added } = await resolveVersion(access, body);
+	// Every push (a trace carrying its document) queues a server check of the version it pushed or matched.
+	if (body.document !== undefined) await enqueueIfSpecified(db, version.document, { teamId: access.team.id, circuitId: circuit.id, version: version.version, userId: access.user.id, reason: 'push' });
 	const inputs = { values: body.inputs.values, superposed: body.inputs.superposed };
 	const summary = body.summary ?? computeTraceSummary(version.document, inputs);
 	const computedBy = body.summary ? 'browser' : 'server';

@@ -26,3 +26,22 @@ export async function checkDatabase(db: Knex, timeoutMs = 2000): Promise<HealthR
 		clearTimeout(timer);
 	}
 }
+
+/** The queue's Redis answers PING within `timeoutMs`. */
+export async function checkQueue(redis: { ping(): Promise<string> }, timeoutMs = 1000): Promise<{ queue: 'up' } | { queue: 'down'; queueReason: string }> {
+	let timer: ReturnType<typeof setTimeout> | undefined;
+	try {
+		const answer = await Promise.race([
+			redis.ping(),
+			new Promise<never>((_, reject) => {
+				timer = setTimeout(() => reject(new Error(`no answer within ${timeoutMs} ms`)), timeoutMs);
+			})
+		]);
+		return answer === 'PONG' ? { queue: 'up' } : { queue: 'down', queueReason: `unexpected answer to PING: ${answer}` };
+	} catch (e) {
+		const msg = (e as Error).message ?? 'unknown error';
+		return { queue: 'down', queueReason: /ECONNREFUSED|connect/i.test(msg) ? 'Redis refused the connection (is it running? npm start starts it)' : msg.split('\n')[0] };
+	} finally {
+		clearTimeout(timer);
+	}
+}

@@ -1,18 +1,32 @@
-import { RateLimiterMemory, RateLimiterRes } from 'rate-limiter-flexible';
+import { RateLimiterMemory, RateLimiterRedis, RateLimiterRes } from 'rate-limiter-flexible';
 import { error } from '@sveltejs/kit';
+import { config } from './config';
+import { sharedWebRedis } from './checks/redis';
 
-// In-process limiters (RateLimiterMemory): the app runs as one Node process, so memory is exact,
-// costs no database round trip, and a restart forgiving old attempts is acceptable. With more
-// than one app process, switch these to RateLimiterMySQL on the same pool.
+// Shared limiters (RateLimiterRedis on the same Redis as the check queue): every app process
+// counts in one place, so running several processes does not multiply any limit. Should Redis
+// not answer, each limiter falls back to an in-process count (its insurance limiter) rather than
+// failing the request: limits then hold per process until Redis is back.
+type Limiter = RateLimiterRedis;
+function shared(name: string, points: number, duration: number): Limiter {
+	return new RateLimiterRedis({
+		storeClient: sharedWebRedis(),
+		keyPrefix: `${config.checks.queuePrefix}:rl:${name}`,
+		points,
+		duration,
+		rejectIfRedisNotReady: true,
+		insuranceLimiter: new RateLimiterMemory({ keyPrefix: `local-${name}`, points, duration })
+	});
+}
 
 /** Failed sign-ins: per account and per client address. Only failures count. */
-const signInPerAccount = new RateLimiterMemory({ keyPrefix: 'signin-acct', points: 5, duration: 15 * 60 });
-const signInPerAddress = new RateLimiterMemory({ keyPrefix: 'signin-addr', points: 50, duration: 15 * 60 });
+const signInPerAccount = shared('signin-acct', 5, 15 * 60);
+const signInPerAddress = shared('signin-addr', 50, 15 * 60);
 /** Reset mails: every request counts. */
-const resetPerAccount = new RateLimiterMemory({ keyPrefix: 'reset-acct', points: 3, duration: 60 * 60 });
-const resetPerAddress = new RateLimiterMemory({ keyPrefix: 'reset-addr', points: 20, duration: 60 * 60 });
+const resetPerAccount = shared('reset-acct', 3, 60 * 60);
+const resetPerAddress = shared('reset-addr', 20, 60 * 60);
 /** Requests with an unknown or revoked bearer token, per address. */
-const badTokenPerAddress = new RateLimiterMemory({ keyPrefix: 'token-addr', points: 30, duration: 60 });
+const badTokenPerAddress = shared('token-addr', 30, 60);
 
 export class TooManyAttempts extends Error {
 	constructor(public retryAfterSeconds: number) {
@@ -25,14 +39,14 @@ function seconds(res: RateLimiterRes | null): number {
 }
 
 /** Throws TooManyAttempts when any of the keys is already over its limit (consumes nothing). */
-async function ensureUnder(pairs: [RateLimiterMemory, string][]): Promise<void> {
+async function ensureUnder(pairs: [Limiter, string][]): Promise<void> {
 	for (const [limiter, key] of pairs) {
 		const res = await limiter.get(key);
 		if (res && res.consumedPoints >= limiter.points) throw new TooManyAttempts(seconds(res));
 	}
 }
 
-async function consumeAll(pairs: [RateLimiterMemory, string][]): Promise<void> {
+async function consumeAll(pairs: [Limiter, string][]): Promise<void> {
 	let blocked: number | null = null;
 	for (const [limiter, key] of pairs) {
 		try {
@@ -45,7 +59,7 @@ async function consumeAll(pairs: [RateLimiterMemory, string][]): Promise<void> {
 	if (blocked !== null) throw new TooManyAttempts(blocked);
 }
 
-const signInKeys = (email: string, address: string): [RateLimiterMemory, string][] => [
+const signInKeys = (email: string, address: string): [Limiter, string][] => [
 	[signInPerAccount, email.toLowerCase()],
 	[signInPerAddress, address]
 ];

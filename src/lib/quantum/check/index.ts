@@ -178,7 +178,14 @@ export function checkCircuit(c: LoweredCircuit, specTexts: string[], options: Ch
 	if (ignorePhase) notes.push('phases ignored: values only (--ignore-phase)');
 	const choice: InputChoice = options.inputs ?? { mode: 'auto', sample: 1000, seed: 1 };
 	const sweep = sweepCircuit(c, specs, { choice, maxAmplitudeQubits: options.maxAmplitudeQubits, onProgress: options.onProgress, domain: conditions, sampler: domain.sample, ignorePhase, inputs: inputList });
-	if (!sweep.exhaustive) notes.push(choice.mode === 'given' ? 'one given input' : `random sample of ${sweep.cases} inputs (seeded)${conditions.length ? ' inside the domain' : ''}`);
+	if (!sweep.exhaustive)
+		notes.push(
+			choice.mode === 'given'
+				? 'one given input'
+				: choice.mode === 'range'
+					? `inputs ${choice.start} to ${choice.end - 1} of 2^${sweep.inputBits} (one part of an exhaustive sweep)${conditions.length ? ', those inside the domain' : ''}`
+					: `random sample of ${sweep.cases} inputs (seeded)${conditions.length ? ' inside the domain' : ''}`
+		);
 	if (sweep.failures.some((f) => f.reason === 'phase')) notes.push(`some inputs end with the right value but a different global phase than the first input (${sweep.phaseReference})`);
 
 	const replay = (list: Record<string, string>[]): SweepResult =>

@@ -13,9 +13,14 @@ import { applyLoweredGates, buildGateTables, AMPLITUDE_QUBIT_LIMITS } from '../a
 import type { LoweredCircuit, PlacedRegister } from '../circuit.js';
 import { evaluateSpec, satisfiesConditions, type Condition, type Spec } from './spec.js';
 
-/** Which inputs to run: every basis input, a seeded random sample, or given values. */
+/**
+ * Which inputs to run: every basis input, a seeded random sample, given values (one or a list), or
+ * the basis inputs with index in [start, end) (one shard of an exhaustive sweep; index bits are the
+ * input registers' bits in register order, LSB first, exactly as `all` enumerates them).
+ */
 export type InputChoice =
 	| { mode: 'all' }
+	| { mode: 'range'; start: number; end: number }
 	| { mode: 'random'; count: number; seed: number }
 	| { mode: 'given'; values: Map<string, bigint> }
 	| { mode: 'list'; values: Map<string, bigint>[] }
@@ -132,13 +137,22 @@ export function sweepCircuit(c: LoweredCircuit, specs: Spec[], options: SweepOpt
 			for (const r of c.registers) m.set(r.name, list[i].get(r.name) ?? 0n);
 			return m;
 		};
-	} else if (choice.mode === 'all') {
-		if (bits > 24) throw new RangeError(`an exhaustive sweep over ${bits} input bits is too large (2^${bits} inputs); use random:N`);
-		total = 2 ** bits;
-		result.exhaustive = true;
+	} else if (choice.mode === 'all' || choice.mode === 'range') {
+		let first = 0;
+		if (choice.mode === 'all') {
+			if (bits > 24) throw new RangeError(`an exhaustive sweep over ${bits} input bits is too large (2^${bits} inputs); use random:N`);
+			total = 2 ** bits;
+			result.exhaustive = true;
+		} else {
+			const { start, end } = choice;
+			if (!Number.isSafeInteger(start) || !Number.isSafeInteger(end) || start < 0 || end < start || end > 2 ** bits)
+				throw new RangeError(`input range [${start}, ${end}) is not inside [0, 2^${bits})`);
+			first = start;
+			total = end - start;
+		}
 		next = (i) => {
 			const m = new Map<string, bigint>();
-			let rest = BigInt(i);
+			let rest = BigInt(first + i);
 			for (const r of c.registers) {
 				if (!inputNames.includes(r.name)) {
 					m.set(r.name, 0n);
@@ -176,7 +190,7 @@ export function sweepCircuit(c: LoweredCircuit, specs: Spec[], options: SweepOpt
 	const expBits = new Uint8Array(c.qubitCount);
 	for (let i = 0; i < total; i++) {
 		const values = next(i);
-		if (choice.mode === 'all' && domain.length && !satisfiesConditions(domain, values)) {
+		if ((choice.mode === 'all' || choice.mode === 'range') && domain.length && !satisfiesConditions(domain, values)) {
 			result.outsideDomain++;
 			continue;
 		}

@@ -13,14 +13,26 @@ export type CircuitRow = {
 	latest_version: number;
 	register_summary: string;
 	gate_count: number;
-	last_check_status: 'pass' | 'fail' | 'error' | null;
-	last_check_summary: string | null;
-	last_checked_at: Date | null;
+	/** The latest server check (table checks); the verdict is the worker's, never a client's. */
+	check_id: string | null;
 	created_at: Date;
 	updated_at: Date;
 };
 
-export type CircuitListRow = CircuitRow & { author_name: string | null };
+/** The latest server check of a circuit, as lists show it. */
+export type CircuitCheckSummary = {
+	id: string;
+	version: number;
+	status: 'queued' | 'running' | 'pass' | 'fail' | 'error' | 'cancelled';
+	method: string | null;
+	cases: number;
+	failed: number;
+	exhaustive: boolean;
+	message: string | null;
+	finishedAt: Date | null;
+};
+
+export type CircuitListRow = CircuitRow & { author_name: string | null; check: CircuitCheckSummary | null };
 
 export type CircuitVersionRow = {
 	id: string;
@@ -66,12 +78,57 @@ function readDocument(raw: unknown): CircuitDocument {
 	return (typeof raw === 'string' ? JSON.parse(raw) : raw) as CircuitDocument;
 }
 
-export async function listCircuits(db: Db, teamId: string): Promise<CircuitListRow[]> {
+function listQuery(db: Db, teamId: string) {
 	return db('circuits as c')
 		.leftJoin('users as u', 'u.id', 'c.created_by')
+		.leftJoin('checks as k', 'k.id', 'c.check_id')
 		.where('c.team_id', teamId)
-		.orderBy('c.updated_at', 'desc')
-		.select('c.*', 'u.name as author_name');
+		.select(
+			'c.*',
+			'u.name as author_name',
+			'k.version as k_version',
+			'k.status as k_status',
+			'k.method as k_method',
+			'k.cases as k_cases',
+			'k.failed as k_failed',
+			'k.exhaustive as k_exhaustive',
+			'k.message as k_message',
+			'k.finished_at as k_finished_at'
+		);
+}
+
+function readListRow(r: Record<string, unknown>): CircuitListRow {
+	const { k_version, k_status, k_method, k_cases, k_failed, k_exhaustive, k_message, k_finished_at, ...rest } = r;
+	const row = rest as unknown as CircuitListRow;
+	row.check = row.check_id
+		? {
+				id: row.check_id,
+				version: Number(k_version),
+				status: k_status as CircuitCheckSummary['status'],
+				method: (k_method as string | null) ?? null,
+				cases: Number(k_cases),
+				failed: Number(k_failed),
+				exhaustive: Boolean(k_exhaustive),
+				message: (k_message as string | null) ?? null,
+				finishedAt: (k_finished_at as Date | null) ?? null
+			}
+		: null;
+	return row;
+}
+
+export async function listCircuits(db: Db, teamId: string): Promise<CircuitListRow[]> {
+	const rows = await listQuery(db, teamId).orderBy('c.updated_at', 'desc');
+	return rows.map(readListRow);
+}
+
+/** One page, newest change first (the JSON list). */
+export async function listCircuitsPage(db: Db, teamId: string, page: number, perPage: number): Promise<{ rows: CircuitListRow[]; total: number }> {
+	const [{ n }] = await db('circuits').where({ team_id: teamId }).count({ n: '*' });
+	const rows = await listQuery(db, teamId)
+		.orderBy([{ column: 'c.updated_at', order: 'desc' }, { column: 'c.id' }])
+		.limit(perPage)
+		.offset((page - 1) * perPage);
+	return { rows: rows.map(readListRow), total: Number(n) };
 }
 
 export async function findCircuit(db: Db, teamId: string, id: string): Promise<CircuitRow | undefined> {
@@ -170,8 +227,4 @@ export async function deleteCircuit(db: Knex, teamId: string, circuitId: string,
 		if (n) await trx('audit_log').insert({ actor_id: userId, team_id: teamId, action: 'circuit.delete', subject_type: 'circuit', subject_id: circuitId });
 		return n > 0;
 	});
-}
-
-export async function recordCheck(db: Db, circuitId: string, status: 'pass' | 'fail' | 'error', summary: string): Promise<void> {
-	await db('circuits').where({ id: circuitId }).update({ last_check_status: status, last_check_summary: summary.slice(0, 255), last_checked_at: db.fn.now(3) });
 }

@@ -6,6 +6,7 @@ import { listActiveTokens } from '$lib/server/repositories/api-tokens';
 import { can } from '$lib/permissions';
 import { listCircuits } from '$lib/server/repositories/circuits';
 import { listReports } from '$lib/server/repositories/reports';
+import { circuitCheckView } from '$lib/server/checks/view';
 import type { PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ locals, params, url }) => {
@@ -21,7 +22,7 @@ export const load: PageServerLoad = async ({ locals, params, url }) => {
 	]);
 	return {
 		counts: { members, pending, myTokens: tokens, circuits: circuits.length, openReports: open.total },
-		recentCircuits: circuits.slice(0, 5).map((c) => ({ id: c.id, title: c.title, registers: c.register_summary, status: c.last_check_status, statusText: c.last_check_summary })),
+		recentCircuits: circuits.slice(0, 5).map((c) => ({ id: c.id, title: c.title, registers: c.register_summary, check: circuitCheckView(c.check) })),
 		myReports: mine.rows.filter((r) => r.status !== 'verified' && r.status !== 'wont_fix').map((r) => ({ id: r.id, title: r.title, status: r.status, severity: r.severity, circuit: r.circuit.title }))
 	};
 };

@@ -8,6 +8,8 @@ import { importCircuitFile } from '$lib/server/circuit-import';
 import { circuitIdSchema, newCircuitSchema } from '$lib/schemas/circuits';
 import { makeTemplate } from '$lib/quantum/templates';
 import { routes } from '$lib/routes';
+import { enqueueIfSpecified } from '$lib/server/checks/enqueue';
+import { circuitCheckView } from '$lib/server/checks/view';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ locals, params, url, depends }) => {
@@ -25,8 +27,7 @@ export const load: PageServerLoad = async ({ locals, params, url, depends }) => 
 			gateCount: r.gate_count,
 			version: r.latest_version,
 			author: r.author_name ?? '—',
-			status: r.last_check_status,
-			statusText: r.last_check_summary,
+			check: circuitCheckView(r.check),
 			updatedAt: r.updated_at.toISOString()
 		}))
 	};
@@ -39,6 +40,7 @@ export const actions: Actions = {
 		if (!form.ok) return form.failure;
 		const doc = makeTemplate(form.data.template, form.data.title, form.data.bits);
 		const { circuit } = await createCircuit(db, access.team.id, access.user.id, doc, `created from template ${form.data.template}`);
+		await enqueueIfSpecified(db, doc, { teamId: access.team.id, circuitId: circuit.id, version: 1, userId: access.user.id, reason: 'create' });
 		redirect(303, routes.circuit(access.team.slug, circuit.id));
 	},
 
@@ -50,6 +52,7 @@ export const actions: Actions = {
 		const result = await importCircuitFile(file);
 		if (!result.ok) return fail(400, { errors: { file: result.errors }, values: {} });
 		const { circuit } = await createCircuit(db, access.team.id, access.user.id, result.document, `imported from ${file.name}`);
+		await enqueueIfSpecified(db, result.document, { teamId: access.team.id, circuitId: circuit.id, version: 1, userId: access.user.id, reason: 'upload' });
 		redirect(303, routes.circuit(access.team.slug, circuit.id));
 	},
 
@@ -62,7 +65,8 @@ export const actions: Actions = {
 		const version = await findVersion(db, source.id, source.latest_version);
 		if (!version) error(404, { message: 'That circuit has no saved version.', code: 'not_found' });
 		const doc = { ...version.document, title: `${version.document.title} (copy)`.slice(0, 120) };
-		await createCircuit(db, access.team.id, access.user.id, doc, `duplicated from ${source.title} v${source.latest_version}`);
+		const copy = await createCircuit(db, access.team.id, access.user.id, doc, `duplicated from ${source.title} v${source.latest_version}`);
+		await enqueueIfSpecified(db, doc, { teamId: access.team.id, circuitId: copy.circuit.id, version: 1, userId: access.user.id, reason: 'create' });
 		return { duplicated: true };
 	},
 

@@ -6,6 +6,9 @@ import { createCircuit, findCircuit, findVersion, listVersions, saveVersion, Sta
 import { parseCircuitDocument } from '$lib/quantum/schema';
 import { routes } from '$lib/routes';
 import { loadTeamDebug } from '$lib/server/debugging';
+import { enqueueIfSpecified, readProgress } from '$lib/server/checks/enqueue';
+import { latestCheckOfVersion } from '$lib/server/checks/store';
+import { checkView } from '$lib/server/checks/view';
 import type { Actions, PageServerLoad } from './$types';
 
 const NOT_FOUND = { message: 'No such circuit in this team.', code: 'not_found' };
@@ -21,6 +24,7 @@ export const load: PageServerLoad = async ({ locals, params, url, depends }) => 
 	const version = await findVersion(db, circuit.id, Number.isInteger(asked) && asked > 0 ? asked : circuit.latest_version);
 	if (!version) error(404, { message: `This circuit has no version ${asked}.`, code: 'not_found' });
 	const versions = await listVersions(db, circuit.id);
+	const check = await latestCheckOfVersion(db, circuit.id, version.version);
 	return {
 		team: { slug: access.team.slug, name: access.team.name },
 		role: access.role,
@@ -29,7 +33,9 @@ export const load: PageServerLoad = async ({ locals, params, url, depends }) => 
 		version: { number: version.version, hash: version.hash, createdAt: version.created_at.toISOString(), message: version.message },
 		document: version.document,
 		versions: versions.map((v) => ({ number: v.version, message: v.message, createdAt: v.created_at.toISOString() })),
-		debug: await loadTeamDebug(access, version.id)
+		debug: await loadTeamDebug(access, version.id),
+		serverCheck: check ? checkView(check, await readProgress(db, check).catch(() => null)) : null,
+		canRunChecks: can(access.role, 'check.run')
 	};
 };
 
@@ -60,7 +66,8 @@ export const actions: Actions = {
 		if (!Number.isInteger(base) || base < 1) return fail(400, { saveError: 'The save did not say which version it was based on.' });
 		try {
 			const version = await saveVersion(db, circuit.id, base, access.user.id, doc.document, String(data.get('message') ?? '').slice(0, 255));
-			return { saved: version };
+			const check = await enqueueIfSpecified(db, doc.document, { teamId: access.team.id, circuitId: circuit.id, version, userId: access.user.id, reason: 'save' });
+			return { saved: version, checkId: check?.id ?? null };
 		} catch (e) {
 			if (e instanceof StaleVersionError)
 				return fail(409, {
@@ -78,6 +85,7 @@ export const actions: Actions = {
 		if (!doc.ok) return fail(400, { saveError: doc.message });
 		const copy = { ...doc.document, title: `${doc.document.title} (my copy)`.slice(0, 120) };
 		const { circuit } = await createCircuit(db, access.team.id, access.user.id, copy, `copy of ${params.id}`);
+		await enqueueIfSpecified(db, copy, { teamId: access.team.id, circuitId: circuit.id, version: 1, userId: access.user.id, reason: 'save' });
 		redirect(303, routes.circuit(access.team.slug, circuit.id));
 	}
 };

@@ -9,6 +9,8 @@ import { eventsOfChange, notifyReportEvent } from '$lib/server/report-mail';
 import { commentSchema } from '$lib/schemas/debugging';
 import { REPORT_STATUSES, SEVERITIES, STATUS_MOVES } from '$lib/debug/reports';
 import { can } from '$lib/permissions';
+import { latestCheckOfVersion } from '$lib/server/checks/store';
+import { listStatus } from '$lib/server/checks/view';
 import type { Actions, PageServerLoad } from './$types';
 
 const NOT_FOUND = { message: 'No such report in this team.', code: 'not_found' };
@@ -19,7 +21,12 @@ export const load: PageServerLoad = async ({ locals, params, url, depends }) => 
 	const report = await findReport(db, access.team.id, params.id);
 	if (!report) error(404, NOT_FOUND);
 	const strip = (p: typeof report.assignee) => (p ? { id: p.id, name: p.name } : null);
+	// The server's verdict on the version the report's trace ran (never a client's word).
+	const check = await latestCheckOfVersion(db, report.circuit.id, report.trace.version);
 	return {
+		serverCheck: check
+			? { status: listStatus(check.status), version: check.version, method: check.method, cases: check.cases, failed: check.failed, exhaustive: check.exhaustive, message: check.message, ...(check.status === 'error' || check.status === 'cancelled' ? { outcome: check.status } : {}) }
+			: { status: 'none' as const, method: null, cases: 0 },
 		report: { ...report, assignee: strip(report.assignee), reviewer: strip(report.reviewer) },
 		comments: await listReportComments(db, report.id),
 		history: await reportHistory(db, access.team.id, report.id),

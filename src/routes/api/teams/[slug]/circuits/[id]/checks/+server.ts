@@ -3,30 +3,42 @@ import { z } from 'zod';
 import { apiRoute, readJson } from '$lib/server/api';
 import { db } from '$lib/server/db';
 import { requireTeamRole } from '$lib/server/guard';
-import { findCircuit, recordCheck } from '$lib/server/repositories/circuits';
+import { findCircuit, findVersion } from '$lib/server/repositories/circuits';
+import { enqueueCheck, readProgress } from '$lib/server/checks/enqueue';
+import { listCircuitChecks } from '$lib/server/checks/store';
+import { checkView } from '$lib/server/checks/view';
 import type { RequestHandler } from './$types';
 
-const checkSchema = z.object({
-	version: z.number().int().min(1),
-	ok: z.boolean(),
-	method: z.enum(['sweep', 'proof', 'sweep+proof']),
-	cases: z.number().int().min(0),
-	failed: z.number().int().min(0),
-	exhaustive: z.boolean()
+const NOT_FOUND = { message: 'No such circuit in this team.', code: 'not_found' };
+
+/** GET: the circuit's server checks, newest first (the first one with its progress). */
+export const GET: RequestHandler = apiRoute(async ({ locals, params }) => {
+	const access = await requireTeamRole(locals, params.slug, 'check.view');
+	const circuit = await findCircuit(db, access.team.id, params.id);
+	if (!circuit) error(404, NOT_FOUND);
+	const rows = await listCircuitChecks(db, circuit.id, 10);
+	const latest = rows[0] ? checkView(rows[0], await readProgress(db, rows[0])) : null;
+	return json({ latest, checks: rows.map((r) => checkView(r, null)) }, { headers: { 'cache-control': 'no-store' } });
 });
 
-// POST …/checks: record the outcome of a check run in a browser or by the command line, so the
-// circuits table shows the last status. The outcome is the caller's word; the table says so.
+// Only a version to check: the server runs the proof and the sweep itself. The old body that carried
+// a client's verdict (ok, cases, failed, …) is refused by name, so an old script learns why.
+const requestSchema = z.strictObject({ version: z.number().int().min(1).optional() });
+
+/** POST {version?}: queue a server check of that version (default the latest). 202 with the queued check. */
 export const POST: RequestHandler = apiRoute(async ({ locals, params, request }) => {
-	const access = await requireTeamRole(locals, params.slug, 'trace.create');
+	const access = await requireTeamRole(locals, params.slug, 'check.run');
 	const circuit = await findCircuit(db, access.team.id, params.id);
-	if (!circuit) error(404, { message: 'No such circuit in this team.', code: 'not_found' });
-	const body = await readJson(request, checkSchema);
-	if (body.version > circuit.latest_version) error(400, { message: `version ${body.version} does not exist yet`, code: 'bad_request' });
-	const what = body.method === 'sweep+proof' ? 'proof and sweep' : 'sweep';
-	const summary = body.ok
-		? `v${body.version}: ${what} passed, ${body.cases} input${body.cases === 1 ? '' : 's'}${body.exhaustive ? ' (all)' : ''}; by ${access.user.name}`
-		: `v${body.version}: ${body.failed} of ${body.cases} inputs fail (${what}); by ${access.user.name}`;
-	await recordCheck(db, circuit.id, body.ok ? 'pass' : 'fail', summary);
-	return json({ status: body.ok ? 'pass' : 'fail', summary }, { status: 201 });
+	if (!circuit) error(404, NOT_FOUND);
+	const raw = await request.clone().json().catch(() => null);
+	if (raw && typeof raw === 'object' && 'ok' in raw)
+		error(400, { message: 'A client cannot set a verdict: the server runs every check itself. Send {"version": N} (or nothing) to queue one.', code: 'bad_request' });
+	const body = await readJson(request, requestSchema);
+	const version = body.version ?? circuit.latest_version;
+	const v = await findVersion(db, circuit.id, version);
+	if (!v) error(404, { message: `This circuit has no version ${version}.`, code: 'not_found' });
+	if (!v.document.specs?.length) error(422, { message: `Version ${version} has no specs, so there is nothing to check; add one such as "b = a + b mod 8".`, code: 'unprocessable' });
+	const row = await enqueueCheck(db, { teamId: access.team.id, circuitId: circuit.id, version, userId: access.user.id, reason: 'request' });
+	if (!row) error(404, { message: `This circuit has no version ${version}.`, code: 'not_found' });
+	return json({ check: checkView(row, null) }, { status: 202 });
 });

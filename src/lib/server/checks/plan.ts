@@ -1,0 +1,75 @@
+// Pure parts of a server check: how a sweep is cut into shards and how shard results merge into
+// one verdict. No database, Redis or BullMQ here, so the unit tests cover them directly.
+import type { SweepCase } from '../../quantum/check/index';
+
+/** One shard's outcome, as stored in check_shards (keyed by check and shard index). */
+export interface ShardOutcome {
+	shard: number;
+	start: number;
+	end: number;
+	cases: number;
+	failed: number;
+	worstProbability: number;
+	/** First failing inputs of this shard, in input order (at most KEEP_FAILURES). */
+	failures: SweepCase[];
+	engines: { ledger: number; amplitudes: number };
+}
+
+/** Failing inputs a check keeps (the first ones in input order). */
+export const KEEP_FAILURES = 20;
+
+/** Cut [0, total) into consecutive ranges of `size` inputs (the last may be shorter). */
+export function planShards(total: number, size: number): { start: number; end: number }[] {
+	if (!Number.isSafeInteger(total) || total < 0) throw new RangeError(`cannot shard ${total} inputs`);
+	if (!Number.isSafeInteger(size) || size < 1) throw new RangeError(`shard size must be a positive integer, not ${size}`);
+	const out: { start: number; end: number }[] = [];
+	for (let start = 0; start < total; start += size) out.push({ start, end: Math.min(total, start + size) });
+	return out;
+}
+
+export interface MergedSweep {
+	cases: number;
+	failed: number;
+	worstProbability: number;
+	failures: SweepCase[];
+	engines: { ledger: number; amplitudes: number };
+	/** Index ranges no shard covered (empty when the sweep is complete). */
+	missing: { start: number; end: number }[];
+}
+
+/**
+ * Merge shard outcomes of a sweep over [0, total). Each shard index counts once whatever order the
+ * rows come in (a duplicate of the same shard is ignored), and ranges no shard covered are listed,
+ * so a caller can refuse to call an incomplete sweep exhaustive.
+ */
+export function mergeShards(rows: ShardOutcome[], total: number, keep = KEEP_FAILURES): MergedSweep {
+	const byShard = new Map<number, ShardOutcome>();
+	for (const r of rows) if (!byShard.has(r.shard)) byShard.set(r.shard, r);
+	const ordered = [...byShard.values()].sort((a, b) => a.start - b.start);
+	const out: MergedSweep = { cases: 0, failed: 0, worstProbability: 1, failures: [], engines: { ledger: 0, amplitudes: 0 }, missing: [] };
+	let covered = 0;
+	for (const r of ordered) {
+		if (r.start > covered) out.missing.push({ start: covered, end: r.start });
+		covered = Math.max(covered, r.end);
+		out.cases += r.cases;
+		out.failed += r.failed;
+		if (r.worstProbability < out.worstProbability) out.worstProbability = r.worstProbability;
+		for (const f of r.failures) if (out.failures.length < keep) out.failures.push(f);
+		out.engines.ledger += r.engines.ledger;
+		out.engines.amplitudes += r.engines.amplitudes;
+	}
+	if (covered < total) out.missing.push({ start: covered, end: total });
+	return out;
+}
+
+/** "ledger", "amplitudes" or "ledger+amplitudes": which engines the sweep used. */
+export function engineName(e: { ledger: number; amplitudes: number }): string {
+	return e.ledger && e.amplitudes ? 'ledger+amplitudes' : e.amplitudes ? 'amplitudes' : 'ledger';
+}
+
+/** inputs/s and seconds left, from inputs done since the check started. */
+export function rateAndEstimate(done: number, total: number, elapsedMs: number): { inputsPerSecond: number | null; etaSeconds: number | null } {
+	if (elapsedMs <= 0 || done <= 0) return { inputsPerSecond: null, etaSeconds: null };
+	const rate = (done * 1000) / elapsedMs;
+	return { inputsPerSecond: Math.round(rate), etaSeconds: done >= total ? 0 : Math.ceil((total - done) / rate) };
+}
