@@ -7,7 +7,7 @@
 import { spawn, type ChildProcess } from 'node:child_process';
 import knex from 'knex';
 import knexConfig from '../knexfile';
-import { makeTemplate } from '../src/lib/components/workbench/templates';
+import { makeTemplate } from '../src/lib/quantum/templates';
 import { lowerCircuit } from '../src/lib/quantum/lower';
 import { checkCircuit } from '../src/lib/quantum/check/index';
 import type { CircuitDocument } from '../src/lib/quantum/circuit';

@@ -1,7 +1,7 @@
 import { expect, test, type APIRequestContext } from '@playwright/test';
 import { formHeaders } from './support/accounts';
 import { ACTORS, faultyAdder, makeCrew, type Actor, type Crew } from './support/debugging';
-import { makeTemplate } from '../../src/lib/components/workbench/templates';
+import { makeTemplate } from '../../src/lib/quantum/templates';
 
 // Server checks over HTTP for owner, engineer, reviewer, viewer, a signed-in stranger and no
 // session (the role table: everyone in the team reads checks; owner and engineer queue and cancel

@@ -4,7 +4,7 @@ import { Queue } from 'bullmq';
 import { Redis } from 'ioredis';
 import type { Knex } from 'knex';
 import { haveTestDb, openTestDb } from './test-db';
-import { makeTemplate } from '../../src/lib/components/workbench/templates';
+import { makeTemplate } from '../../src/lib/quantum/templates';
 import { lowerCircuit } from '../../src/lib/quantum/lower';
 import { checkCircuit } from '../../src/lib/quantum/check/index';
 import type { CircuitDocument } from '../../src/lib/quantum/circuit';

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { makeTemplate } from '../../components/workbench/templates';
+import { makeTemplate } from '../../quantum/templates';
 import { lowerCircuit } from '../../quantum/lower';
 import { checkCircuit } from '../../quantum/check/index';
 import { engineName, mergeShards, planShards, rateAndEstimate, type ShardOutcome } from './plan';

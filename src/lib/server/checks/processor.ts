@@ -205,9 +205,11 @@ async function plan(job: Job<CheckJobData>, token: string | undefined, deps: Pro
 		});
 		return { shards: shards.length };
 	} catch (e) {
-		if (e instanceof CheckStop) {
-			await finishCheck(deps.db, checkId, fail(deps.host, e.message));
-			return { error: e.message };
+		// A limit, or a domain/engine limit the core states (RangeError), ends the check with its sentence.
+		if (e instanceof CheckStop || e instanceof RangeError) {
+			const message = e instanceof CheckStop ? e.message : `the sweep could not run: ${e.message}`;
+			await finishCheck(deps.db, checkId, fail(deps.host, message));
+			return { error: message };
 		}
 		throw e;
 	}
