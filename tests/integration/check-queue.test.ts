@@ -125,6 +125,20 @@ describe.skipIf(!haveTestDb)('server checks on BullMQ: sharded sweeps, a killed 
 		await appDb.db.destroy();
 	}, 60_000);
 
+	it('a save never waits on a dead queue: the check is marked "could not be queued" within the timeout', async () => {
+		const circuitId = await newCircuit(makeTemplate('adder', 'dead queue adder', 3));
+		// Port 1 on loopback: nothing listens there on these machines (common practice).
+		const dead = new Queue('checks', { connection: { host: '127.0.0.1', port: 1, maxRetriesPerRequest: 1, enableOfflineQueue: false, retryStrategy: () => null }, prefix: PREFIX });
+		dead.on('error', () => undefined);
+		const t0 = Date.now();
+		const row = (await enqueue.enqueueCheck(db, { teamId, circuitId, version: 1, userId, reason: 'save' }, dead))!;
+		expect(Date.now() - t0).toBeLessThan(enqueue.ENQUEUE_TIMEOUT_MS + 2000);
+		const after = (await store.findCheck(db, row.id))!;
+		expect(after.status).toBe('error');
+		expect(after.message).toContain('could not be queued');
+		await dead.close().catch(() => undefined);
+	});
+
 	it('two worker processes split a 2^20-input sweep into shards and merge it to the single-process result', async () => {
 		const doc = faultyAdder(10);
 		const circuitId = await newCircuit(doc);
