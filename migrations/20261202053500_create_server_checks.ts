@@ -51,6 +51,8 @@ export async function up(knex: Knex): Promise<void> {
 		t.double('worst_probability').notNullable();
 		t.json('failures').notNullable();
 		t.json('engines').notNullable();
+		/** Distinct global-phase references of the shard's chunks (the merge fails a check whose parts disagree). */
+		t.json('phase_references').notNullable();
 		t.string('worker_host', 255).notNullable();
 		t.integer('duration_ms').unsigned().notNullable();
 		t.datetime('finished_at', { precision: 3 }).notNullable().defaultTo(knex.fn.now(3));

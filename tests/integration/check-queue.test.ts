@@ -96,7 +96,7 @@ describe.skipIf(!haveTestDb)('server checks on BullMQ: sharded sweeps, a killed 
 
 	/** The reference: one process, every input, the core's own sweep. */
 	function reference(doc: CircuitDocument) {
-		return checkCircuit(lowerCircuit(doc), doc.specs!, { inputs: { mode: 'all' } });
+		return checkCircuit(lowerCircuit(doc), doc.specs!, { inputs: { mode: 'all' }, proof: false });
 	}
 
 	beforeAll(async () => {
@@ -157,6 +157,8 @@ describe.skipIf(!haveTestDb)('server checks on BullMQ: sharded sweeps, a killed 
 		expect([done.cases, done.failed, done.worst_probability]).toEqual([ref.cases, ref.failed, ref.worstSuccessProbability]);
 		expect(done.result!.failures).toEqual(ref.failures);
 		expect(done.result!.engines).toEqual(ref.engines);
+		// Every shard met the one sweep's global phase (no input was judged against another reference).
+		expect(new Set((await store.listShards(db, row.id)).flatMap((x) => x.phaseReferences))).toEqual(new Set([ref.phaseReference]));
 		expect(done.method).toBe('sweep+proof');
 		expect(done.proof_status).toBe('refuted');
 		const shards = await store.listShards(db, row.id);

@@ -82,6 +82,8 @@ export interface CheckReport {
 	/** The inputs the checks cover: the conditions, how many inputs of the domain the sweep ran, and the exact size of the domain among all basis inputs. */
 	domain: { conditions: string[]; inputs: number; count: string; total: string };
 	phases: 'checked' | 'ignored';
+	/** The global phase every passing input must share (that of the first passing input swept), or null. */
+	phaseReference: string | null;
 	specs: string[];
 	inputs: { registers: string[]; bits: number };
 	engines: { ledger: number; amplitudes: number };
@@ -320,6 +322,7 @@ export function checkCircuit(c: LoweredCircuit, specTexts: string[], options: Ch
 		proof,
 		domain: { conditions: domain.conditions, inputs: sweep.cases, count: domain.count.toString(), total: domain.total.toString() },
 		phases: ignorePhase ? 'ignored' : 'checked',
+		phaseReference: sweep.phaseReference,
 		specs: specs.map((s) => s.text),
 		inputs: { registers: sweep.inputRegisters, bits: sweep.inputBits },
 		engines: sweep.engines,

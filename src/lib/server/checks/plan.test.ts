@@ -31,7 +31,7 @@ describe('mergeShards', () => {
 	const whole = checkCircuit(c, doc.specs!, { inputs: { mode: 'all' }, proof: false });
 	const shards: ShardOutcome[] = planShards(256, 48).map((r, shard) => {
 		const x = checkCircuit(c, doc.specs!, { inputs: { mode: 'range', start: r.start, end: r.end }, proof: false });
-		return { shard, ...r, cases: x.cases, failed: x.failed, worstProbability: x.worstSuccessProbability, failures: x.failures, engines: x.engines };
+		return { shard, ...r, cases: x.cases, failed: x.failed, worstProbability: x.worstSuccessProbability, failures: x.failures, engines: x.engines, phaseReferences: x.phaseReference ? [x.phaseReference] : [] };
 	});
 
 	it('gives the single-process sweep: counts, worst probability, first failing inputs, engines', () => {
@@ -43,6 +43,14 @@ describe('mergeShards', () => {
 		expect(m.failures).toEqual(whole.failures);
 		expect(m.engines).toEqual(whole.engines);
 		expect(engineName(m.engines)).toBe('ledger');
+		// Every part met the same global phase as the one sweep did, so no input was judged against another reference.
+		expect(whole.phaseReference).not.toBeNull();
+		expect(m.phaseReferences).toEqual([whole.phaseReference]);
+	});
+
+	it('keeps every distinct phase reference, so parts that disagree can be failed', () => {
+		const odd = { ...shards[2], phaseReferences: ['1/4 turn'] };
+		expect(mergeShards([shards[0], shards[1], odd, ...shards.slice(3)], 256).phaseReferences).toEqual([whole.phaseReference, '1/4 turn']);
 	});
 
 	it('counts a shard written twice once, in any order', () => {

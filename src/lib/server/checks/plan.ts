@@ -13,6 +13,12 @@ export interface ShardOutcome {
 	/** First failing inputs of this shard, in input order (at most KEEP_FAILURES). */
 	failures: SweepCase[];
 	engines: { ledger: number; amplitudes: number };
+	/**
+	 * The distinct global-phase references of this shard's chunks, in input order. The core compares
+	 * each passing input's phase with the first passing input it swept; a part of a sweep starts its
+	 * own reference, so the parts agree with one sweep only when every reference is the same.
+	 */
+	phaseReferences: string[];
 }
 
 /** Failing inputs a check keeps (the first ones in input order). */
@@ -35,6 +41,8 @@ export interface MergedSweep {
 	engines: { ledger: number; amplitudes: number };
 	/** Index ranges no shard covered (empty when the sweep is complete). */
 	missing: { start: number; end: number }[];
+	/** Distinct phase references met, in input order: more than one means some input fails on its phase. */
+	phaseReferences: string[];
 }
 
 /**
@@ -46,7 +54,7 @@ export function mergeShards(rows: ShardOutcome[], total: number, keep = KEEP_FAI
 	const byShard = new Map<number, ShardOutcome>();
 	for (const r of rows) if (!byShard.has(r.shard)) byShard.set(r.shard, r);
 	const ordered = [...byShard.values()].sort((a, b) => a.start - b.start);
-	const out: MergedSweep = { cases: 0, failed: 0, worstProbability: 1, failures: [], engines: { ledger: 0, amplitudes: 0 }, missing: [] };
+	const out: MergedSweep = { cases: 0, failed: 0, worstProbability: 1, failures: [], engines: { ledger: 0, amplitudes: 0 }, missing: [], phaseReferences: [] };
 	let covered = 0;
 	for (const r of ordered) {
 		if (r.start > covered) out.missing.push({ start: covered, end: r.start });
@@ -57,6 +65,7 @@ export function mergeShards(rows: ShardOutcome[], total: number, keep = KEEP_FAI
 		for (const f of r.failures) if (out.failures.length < keep) out.failures.push(f);
 		out.engines.ledger += r.engines.ledger;
 		out.engines.amplitudes += r.engines.amplitudes;
+		for (const p of r.phaseReferences ?? []) if (!out.phaseReferences.includes(p)) out.phaseReferences.push(p);
 	}
 	if (covered < total) out.missing.push({ start: covered, end: total });
 	return out;

@@ -88,7 +88,7 @@ function deadlineOf(row: CheckRow, deps: ProcessorDeps): number {
  * cancel flag and the time limit. Returns null when cancelled; throws CheckStop past the limit.
  */
 async function sweepRange(deps: ProcessorDeps, row: CheckRow, c: LoweredCircuit, specs: string[], assume: string[], shard: number, start: number, end: number): Promise<ShardOutcome | null> {
-	const out: ShardOutcome = { shard, start, end, cases: 0, failed: 0, worstProbability: 1, failures: [], engines: { ledger: 0, amplitudes: 0 } };
+	const out: ShardOutcome = { shard, start, end, cases: 0, failed: 0, worstProbability: 1, failures: [], engines: { ledger: 0, amplitudes: 0 }, phaseReferences: [] };
 	const deadline = deadlineOf(row, deps);
 	const progressKey = redisKeys.progress(row.id);
 	for (let a = start; a < end; a += CHUNK_INPUTS) {
@@ -100,6 +100,7 @@ async function sweepRange(deps: ProcessorDeps, row: CheckRow, c: LoweredCircuit,
 		for (const f of r.failures) if (out.failures.length < KEEP_FAILURES) out.failures.push(f);
 		out.engines.ledger += r.engines.ledger;
 		out.engines.amplitudes += r.engines.amplitudes;
+		if (r.phaseReference && !out.phaseReferences.includes(r.phaseReference)) out.phaseReferences.push(r.phaseReference);
 		await deps.redis.multi().hset(progressKey, String(shard), b - start).expire(progressKey, KEY_TTL_SECONDS).exec();
 		if (await cancelled(deps, row.id)) return null;
 		if (Date.now() > deadline && b < end) throw new CheckStop(`stopped after ${deps.settings.maxSeconds} s, the server's limit for one check; raise ORRERY_CHECK_MAX_SECONDS or narrow the domain with assume`);
@@ -125,8 +126,21 @@ function baseResult(head: CheckReport, assume: string[]): CheckResult {
 /** The proof counted: it ran and the circuit was inside the form it decides. */
 const proofApplied = (status: string) => status !== 'skipped' && status !== 'outside' && status !== 'undecided';
 
-function verdictOf(result: CheckResult, sweep: { cases: number; failed: number; worstProbability: number; failures: unknown[]; engines: { ledger: number; amplitudes: number } }, exhaustive: boolean, host: string, message: string | null): Verdict {
+function verdictOf(
+	result: CheckResult,
+	sweep: { cases: number; failed: number; worstProbability: number; failures: unknown[]; engines: { ledger: number; amplitudes: number }; phaseReferences?: string[] },
+	exhaustive: boolean,
+	host: string,
+	message: string | null
+): Verdict {
 	const refuted = result.proof.status === 'refuted';
+	// Parts of the sweep that met different global phases: one sweep would have failed the inputs
+	// whose phase differs from the first passing input's. The verdict is fail; the counts are per part.
+	const phases = sweep.phaseReferences ?? [];
+	if (phases.length > 1) {
+		const note = `inputs end with the right values but different global phases (${phases.slice(0, 3).join(', ')}); the failure counts compare phases within each part of the sweep only`;
+		return { ...verdictOf(result, { ...sweep, phaseReferences: [] }, exhaustive, host, message ? `${message}; ${note}` : note), status: 'fail' };
+	}
 	const applied = proofApplied(result.proof.status);
 	const kind = exhaustive ? 'sweep' : 'sample';
 	return {

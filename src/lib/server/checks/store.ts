@@ -138,6 +138,7 @@ export async function recordShard(db: Knex, checkId: string, s: ShardOutcome, ho
 			worst_probability: s.worstProbability,
 			failures: JSON.stringify(s.failures),
 			engines: JSON.stringify(s.engines),
+			phase_references: JSON.stringify(s.phaseReferences),
 			worker_host: host,
 			duration_ms: Math.round(durationMs)
 		})
@@ -157,6 +158,7 @@ export async function listShards(db: Knex, checkId: string): Promise<(ShardOutco
 		worstProbability: Number(r.worst_probability),
 		failures: parse(r.failures),
 		engines: parse(r.engines),
+		phaseReferences: parse(r.phase_references) ?? [],
 		workerHost: String(r.worker_host)
 	}));
 }
