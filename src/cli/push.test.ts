@@ -49,7 +49,8 @@ describe('orrery push', () => {
 	it('names its target, sends its base version, opens the report at the server\'s divergence; exit 1', async () => {
 		const { io, sent, out } = fakeIo(plantedFaultAdder());
 		expect(await runPush([...args('b = b + c*a mod 16'), '--reviewer', 'REV@lab.example'], io, env)).toBe(1);
-		expect(sent.map((s) => `${s.method} ${s.path}`)).toEqual(['GET /api/me', 'GET /api/teams/lab/members', 'POST /api/teams/lab/traces', `POST /api/teams/lab/circuits/${CIRCUIT}/checks`, 'POST /api/teams/lab/reports']);
+		// No verdict is sent: the server queues its own check of the pushed version when the trace arrives.
+		expect(sent.map((s) => `${s.method} ${s.path}`)).toEqual(['GET /api/me', 'GET /api/teams/lab/members', 'POST /api/teams/lab/traces', 'POST /api/teams/lab/reports']);
 		expect(sent.every((s) => s.auth === 'Bearer orr_fromenv')).toBe(true);
 		const trace = sent[2].body as { circuitId: string; baseVersion: number; force: boolean; document: { specs: string[] }; inputs: { values: Record<string, string> } };
 		expect(trace).toMatchObject({ circuitId: CIRCUIT, baseVersion: 4, force: false });
@@ -57,15 +58,14 @@ describe('orrery push', () => {
 		// The fault needs c=1 and a[1]=1, so the first failing input has both.
 		expect(trace.inputs.values.c).toBe('1');
 		expect((BigInt(trace.inputs.values.a) >> 1n) & 1n).toBe(1n);
-		expect(sent[3].body).toMatchObject({ version: 5, ok: false });
-		const report = sent[4].body as { step: number; severity: string; description: string; reviewerId: string };
+		const report = sent[3].body as { step: number; severity: string; description: string; reviewerId: string };
 		expect(report.step).toBe(13);
 		expect(report.reviewerId).toBe('r'.repeat(24));
 		expect(report.description).toContain('step 13 on b[3]');
 		expect(JSON.parse(out[0])).toMatchObject({ ok: false, circuit: { id: CIRCUIT, version: 5 }, report: { id: 'r'.repeat(24), page: 'http://orrery.test/teams/lab/reports/r' } });
 	});
 
-	it('--new makes a new circuit with that title; a passing push records its verdict and opens no report; exit 0', async () => {
+	it('--new makes a new circuit with that title; a passing push sends no verdict (the server checks) and opens no report; exit 0', async () => {
 		const fixed = plantedFaultAdder();
 		fixed.body = fixed.body.map((i) => (i.id === 'rot-b3-a1' ? { ...i, angle: 'pi/4' } : i)) as typeof fixed.body;
 		const { io, sent } = fakeIo(fixed);
@@ -73,7 +73,7 @@ describe('orrery push', () => {
 		const trace = sent.find((s) => s.path === '/api/teams/lab/traces')!.body as { newTitle: string; circuitId?: string; document: { title: string } };
 		expect(trace.newTitle).toBe('Adder from CI');
 		expect(trace.circuitId).toBeUndefined();
-		expect(sent.find((s) => s.path.endsWith('/checks'))!.body).toMatchObject({ ok: true });
+		expect(sent.map((s) => s.path).some((p) => p.endsWith('/checks'))).toBe(false);
 		expect(sent.map((s) => s.path)).not.toContain('/api/teams/lab/reports');
 	});
 

@@ -193,17 +193,8 @@ export async function runPush(argv: string[], io: PushIo = nodeIo, env: Record<s
 			label: `push: ${file}`.slice(0, 160),
 			...target
 		});
-		// TODO(queue, issue 18): record the server's own verdict by calling the check service's
-		// enqueue API once it is on main; until then the verdict recorded is this command's
-		// (the circuits table says whose word it is).
-		await call(io, server, token, `${team}/circuits/${trace.circuit.id}/checks`, {
-			version: trace.circuit.version,
-			ok: report.ok,
-			method: report.method,
-			cases: report.cases,
-			failed: report.failed,
-			exhaustive: report.exhaustive
-		});
+		// The verdict is the server's: the trace upload queues its own check of the pushed (or matched)
+		// version from the document's specs; this command's result only decides the exit code and the report.
 		let opened: { id: string; links: { page: string; replay: string } } | null = null;
 		const d = trace.firstDivergence;
 		if (!report.ok) {
