@@ -31,4 +31,5 @@ say "mail the app sends (sign-up, reset and invitation links) is written by the 
 say "Orrery is running at $ORIGIN  (Ctrl-C stops the app; npm run stop stops the worker, database, Redis and mail fake)"
 # A built app is a production app: the development outbox is off (src/lib/server/config.ts).
 export NODE_ENV=production
-exec node build
+# Supervised: if the app dies it is started again (scripts/supervise.sh).
+exec bash scripts/supervise.sh node build

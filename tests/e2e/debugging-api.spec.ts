@@ -162,3 +162,42 @@ test('orrery push uploads a failing circuit as a trace and opens a report at its
 	expect(trace.inputs.values).toEqual({ c: '1', a: '2' });
 	expect(trace.firstDivergence.label).toBe('b[3]');
 });
+
+test('deleting a report or its trace deletes the snapshots with it (they stop answering)', async () => {
+	// Issue 10: a deleted report's snapshot stayed readable by its link.
+	const made = await upload(TINY_PNG);
+	expect(made.status()).toBe(201);
+	const id = (await made.json()).id;
+	const link = (await (await crew.ctx.viewer.get(`/api/teams/${crew.slug}/reports/${id}`)).json()).report.links.snapshot as string;
+	expect((await crew.ctx.viewer.get(link)).status()).toBe(200);
+	expect((await crew.ctx.owner.delete(`/api/teams/${crew.slug}/reports/${id}`)).status()).toBe(204);
+	expect((await crew.ctx.viewer.get(link)).status()).toBe(404);
+
+	// A trace takes its reports (by cascade) and their snapshots along.
+	const other = await pushTrace(crew.ctx.engineer, crew.slug, `Doomed adder ${Date.now()}`);
+	const r2 = await crew.ctx.engineer.post(`/api/teams/${crew.slug}/reports`, {
+		headers: { origin: baseURL },
+		multipart: { report: JSON.stringify({ traceId: other.id, step: 13, title: 'goes with its trace' }), snapshot: { name: 's.png', mimeType: 'image/png', buffer: TINY_PNG } }
+	});
+	expect(r2.status()).toBe(201);
+	const link2 = (await (await crew.ctx.viewer.get(`/api/teams/${crew.slug}/reports/${(await r2.json()).id}`)).json()).report.links.snapshot as string;
+	expect((await crew.ctx.viewer.get(link2)).status()).toBe(200);
+	expect((await crew.ctx.owner.delete(`/api/teams/${crew.slug}/traces/${other.id}`)).status()).toBe(204);
+	expect((await crew.ctx.viewer.get(link2)).status()).toBe(404);
+});
+
+test('a 12 MiB multipart snapshot is 413 with a sentence, not 400', async () => {
+	const huge = Buffer.alloc(12 * 1024 * 1024, 0);
+	TINY_PNG.copy(huge, 0, 0, 33);
+	const res = await upload(huge);
+	expect(res.status()).toBe(413);
+	expect((await res.json()).error.message).toMatch(/^The upload is 12\.0 MiB; a snapshot may be at most 5\.0 MiB\./);
+});
+
+test('a route parameter that is not what it should be is 400 before it reaches SQL', async () => {
+	const base = `/api/teams/${crew.slug}/circuits/${trace.circuit.id}/export`;
+	const bad = await crew.ctx.viewer.get(`${base}?version=1%20OR%201=1`);
+	expect(bad.status()).toBe(400);
+	expect((await bad.json()).error.message).toBe('version must be a whole number from 1 up (the version to export).');
+	expect((await crew.ctx.viewer.get(`${base}?version=${trace.circuit.version}&format=json`)).status()).toBe(200);
+});

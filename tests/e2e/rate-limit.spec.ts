@@ -1,5 +1,8 @@
 import { expect, test } from '@playwright/test';
+import { request as newRequest } from '@playwright/test';
+import { baseURL } from '../../playwright.config';
 import { formHeaders, freshEmail, newContext, PASSWORD, signUp } from './support/accounts';
+import { demo, signInInBrowser } from './support/demo';
 
 test('sign-in: five wrong passwords, then the account is held back with a clear wait time', async ({ page }) => {
 	const email = freshEmail('guessed');
@@ -52,4 +55,29 @@ test('reset mails: three per hour per address, then 429', async () => {
 	for (let i = 0; i < 4; i++) statuses.push((await c.post('/reset', { form: { email }, headers: formHeaders })).status());
 	expect(statuses).toEqual([200, 200, 200, 429]);
 	await c.dispose();
+});
+
+test('made-up bearer tokens from one address are held back, but a valid token from that address still works', async ({ page }) => {
+	// Issue 10: the limit was checked before the token, keyed by address, so 31 made-up tokens
+	// locked every valid token from that address (a proxy, a shared CI network) out for a minute.
+	await signInInBrowser(page, demo.engineer.email, demo.engineer.password);
+	await page.goto('/teams/halvorsen-lab/tokens');
+	await page.getByLabel('Name').fill(`shared-network-${Date.now()}`);
+	await page.getByLabel('Role').selectOption('viewer');
+	await page.getByRole('button', { name: 'Create token' }).click();
+	const secret = await page.getByTestId('new-token').inputValue();
+
+	const guesser = await newRequest.newContext({ baseURL, extraHTTPHeaders: { authorization: `Bearer orr_${'a'.repeat(32)}` } });
+	const statuses: number[] = [];
+	for (let i = 0; i < 31; i++) statuses.push((await guesser.get('/api/me')).status());
+	// 30 failures a minute per address are answered 401; the 31st is over the limit.
+	expect(statuses.slice(0, 30).every((s) => s === 401)).toBe(true);
+	expect(statuses[30]).toBe(429);
+
+	const valid = await newRequest.newContext({ baseURL, extraHTTPHeaders: { authorization: `Bearer ${secret}` } });
+	const me = await valid.get('/api/me');
+	expect(me.status(), 'a valid token is not refused for the guesser’s failures').toBe(200);
+	expect((await guesser.get('/api/me')).status()).toBe(429);
+	await guesser.dispose();
+	await valid.dispose();
 });

@@ -98,12 +98,29 @@ export async function saveTrace(access: TeamAccess, body: CreateTrace): Promise<
 }
 
 /** Read a report from JSON or from multipart (`report` as JSON text plus an optional `snapshot` file). */
+/** Room next to the snapshot for the report's text and for base64 (a 5 MiB snapshot is 6.7 MiB in JSON): 8 MiB in all, BODY_SIZE_LIMIT. */
+const MAX_REPORT_TEXT_BYTES = 3 * 1024 * 1024;
+
 export async function readReportRequest(request: Request): Promise<{ input: CreateReportInput; snapshot: Uint8Array | null }> {
 	const type = request.headers.get('content-type') ?? '';
 	let raw: unknown;
 	let snapshot: Uint8Array | null = null;
+	// Too large is 413, said before reading: the snapshot limit plus room for the report's text.
+	const declared = Number(request.headers.get('content-length') ?? 0);
+	const tooLarge = (bytes: number | null): never =>
+		error(413, {
+			message: `The upload is ${bytes === null ? 'larger than the server reads' : `${(bytes / 2 ** 20).toFixed(1)} MiB`}; a snapshot may be at most ${(MAX_SNAPSHOT_BYTES / 2 ** 20).toFixed(1)} MiB. Capture a smaller area or zoom out.`,
+			code: 'bad_request'
+		});
+	if (declared > MAX_SNAPSHOT_BYTES + MAX_REPORT_TEXT_BYTES) tooLarge(declared);
 	if (type.startsWith('multipart/form-data')) {
-		const form = await request.formData().catch(() => null);
+		let overLimit = false;
+		const form = await request.formData().catch((e: unknown) => {
+			// adapter-node stops reading past BODY_SIZE_LIMIT with a 413 of its own.
+			if ((e as { status?: number } | null)?.status === 413) overLimit = true;
+			return null;
+		});
+		if (overLimit) tooLarge(null);
 		if (!form) error(400, { message: 'The upload could not be read as a form.', code: 'bad_request' });
 		const text = form.get('report');
 		if (typeof text !== 'string') error(400, { message: 'The form has no "report" field (the report as JSON).', code: 'bad_request' });

@@ -79,8 +79,8 @@ export const limits = {
 			])
 	},
 	badToken: {
-		check: (address: string) => ensureUnder([[badTokenPerAddress, address]]),
-		fail: (address: string) => consumeAll([[badTokenPerAddress, address]]).catch(() => undefined)
+		/** Count a token proven invalid; throws TooManyAttempts once the address is over its limit. */
+		reject: (address: string) => consumeAll([[badTokenPerAddress, address]])
 	}
 };
 

@@ -21,6 +21,16 @@ export async function insertAttachment(db: Db, p: { teamId: string; userId: stri
 	return id;
 }
 
+/**
+ * Delete the snapshots of the reports `reports` selects (call inside the transaction that deletes
+ * those reports, before the delete: the reports' rows name their snapshots).
+ */
+export async function deleteReportSnapshots(trx: Db, teamId: string, where: { id?: string; trace_id?: string; circuit_id?: string }): Promise<number> {
+	const ids = (await trx('reports').where({ team_id: teamId, ...where }).whereNotNull('snapshot_id').forUpdate().pluck('snapshot_id')) as string[];
+	if (ids.length === 0) return 0;
+	return trx('attachments').where({ team_id: teamId }).whereIn('id', ids).delete();
+}
+
 export async function findAttachment(db: Db, teamId: string, id: string): Promise<AttachmentRow | undefined> {
 	return db<AttachmentRow>('attachments').where({ team_id: teamId, id }).first();
 }

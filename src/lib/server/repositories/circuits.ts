@@ -1,6 +1,7 @@
 import type { Knex } from 'knex';
 import type { Db } from '../db';
 import { newId, sha256 } from '../ids';
+import { deleteReportSnapshots } from './attachments';
 import { serializeCircuitDocument } from '$lib/quantum/schema';
 import type { CircuitDocument } from '$lib/quantum/circuit';
 import { lowerCircuit } from '$lib/quantum/lower';
@@ -223,6 +224,7 @@ export async function saveVersion(
 
 export async function deleteCircuit(db: Knex, teamId: string, circuitId: string, userId: string): Promise<boolean> {
 	return db.transaction(async (trx) => {
+		await deleteReportSnapshots(trx, teamId, { circuit_id: circuitId });
 		const n = await trx('circuits').where({ id: circuitId, team_id: teamId }).delete();
 		if (n) await trx('audit_log').insert({ actor_id: userId, team_id: teamId, action: 'circuit.delete', subject_type: 'circuit', subject_id: circuitId });
 		return n > 0;

@@ -2,7 +2,7 @@ import type { Knex } from 'knex';
 import type { Db } from '../db';
 import { newId } from '../ids';
 import { renderMarkdown } from '../markdown';
-import { insertAttachment } from './attachments';
+import { deleteReportSnapshots, insertAttachment } from './attachments';
 import { canMove, STATUS_LABEL, type ReportStatus, type Severity } from '$lib/debug/reports';
 import type { CreateReportInput, ReportQuery, UpdateReportInput } from '$lib/schemas/debugging';
 import type { LedgerExcerpt } from '$lib/debug/types';
@@ -242,10 +242,14 @@ export async function reportHistory(db: Db, teamId: string, reportId: string) {
 	}));
 }
 
+/** The report, its snapshot and the audit entry go in one transaction (a deleted report's snapshot must not stay readable). */
 export async function deleteReport(db: Db, teamId: string, id: string, actorId: string): Promise<boolean> {
-	const n = await db('reports').where({ team_id: teamId, id }).delete();
-	if (n) await db('audit_log').insert({ actor_id: actorId, team_id: teamId, action: 'report.delete', subject_type: 'report', subject_id: id });
-	return n > 0;
+	return db.transaction(async (trx) => {
+		await deleteReportSnapshots(trx, teamId, { id });
+		const n = await trx('reports').where({ team_id: teamId, id }).delete();
+		if (n) await trx('audit_log').insert({ actor_id: actorId, team_id: teamId, action: 'report.delete', subject_type: 'report', subject_id: id });
+		return n > 0;
+	});
 }
 
 /** Keep the server-drawn board (SVG) and ledger excerpt of a report. */

@@ -1,5 +1,6 @@
 import type { Db } from '../db';
 import { newId } from '../ids';
+import { deleteReportSnapshots } from './attachments';
 import type { TraceQuery, TraceSummaryInput } from '$lib/schemas/debugging';
 
 export type TraceRow = {
@@ -117,10 +118,14 @@ export async function listTraces(db: Db, teamId: string, q: TraceQuery): Promise
 	return { rows, total: Number(n) };
 }
 
+/** The trace, its reports (by cascade) with their snapshots, and the audit entry, in one transaction. */
 export async function deleteTrace(db: Db, teamId: string, id: string, actorId: string): Promise<boolean> {
-	const n = await db('traces').where({ team_id: teamId, id }).delete();
-	if (n) await db('audit_log').insert({ actor_id: actorId, team_id: teamId, action: 'trace.delete', subject_type: 'trace', subject_id: id });
-	return n > 0;
+	return db.transaction(async (trx) => {
+		await deleteReportSnapshots(trx, teamId, { trace_id: id });
+		const n = await trx('traces').where({ team_id: teamId, id }).delete();
+		if (n) await trx('audit_log').insert({ actor_id: actorId, team_id: teamId, action: 'trace.delete', subject_type: 'trace', subject_id: id });
+		return n > 0;
+	});
 }
 
 /** The JSON shape of a trace in the API (and in page data). */

@@ -19,7 +19,7 @@ export const GET: RequestHandler = apiRoute(async ({ locals, params, url }) => {
 	const { team } = await requireTeamRole(locals, params.slug, 'trace.replay');
 	const circuitId = url.searchParams.get('circuit') ?? '';
 	const version = Number(url.searchParams.get('version'));
-	if (!/^[a-z2-7]{24}$/.test(circuitId) || !Number.isInteger(version) || version < 1) error(400, { message: 'Give ?circuit={id}&version={n}.', code: 'bad_request' });
+	if (!/^[a-z2-7]{24}$/.test(circuitId) || !Number.isInteger(version) || version < 1 || version > 999_999_999) error(400, { message: 'Give ?circuit={id}&version={n}.', code: 'bad_request' });
 	const v = await versionOf(team.id, circuitId, version);
 	return json({ breakpoints: await listBreakpoints(db, team.id, v.id) });
 });
