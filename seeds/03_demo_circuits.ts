@@ -1,16 +1,18 @@
 import type { Knex } from 'knex';
 import { createHash } from 'node:crypto';
 import { newId } from '../src/lib/server/ids';
-import { demoMultiplier, plantedFaultAdder } from '../src/lib/quantum/templates';
+import { demoMultiplier, periodFinding, periodFindingUnreduced, plantedFaultAdder } from '../src/lib/quantum/templates';
 import { lowerCircuit } from '../src/lib/quantum/lower';
 import type { CircuitDocument } from '../src/lib/quantum/circuit';
 
-// Two demo circuits for the invented Halvorsen Phase Lab, so a first visit has something to step
+// Demo circuits for the invented Halvorsen Phase Lab, so a first visit has something to step
 // and something to debug. Safe to run again: a circuit with the same title is left alone.
 
 const DEMOS: { make: () => CircuitDocument; author: string; message: string }[] = [
 	{ make: demoMultiplier, author: 'tomas@halvorsen-lab.example', message: 'multiplier for the lab’s period-finding study' },
-	{ make: plantedFaultAdder, author: 'tomas@halvorsen-lab.example', message: 'hand-written controlled adder (has a bug to find)' }
+	{ make: plantedFaultAdder, author: 'tomas@halvorsen-lab.example', message: 'hand-written controlled adder (has a bug to find)' },
+	{ make: () => periodFinding(), author: 'tomas@halvorsen-lab.example', message: 'modular exponentiation for the lab’s period-finding run, 2^e mod 21' },
+	{ make: periodFindingUnreduced, author: 'tomas@halvorsen-lab.example', message: 'copy of the period-finding circuit with the constants typed in by hand (one is off: find it)' }
 ];
 
 export async function seed(knex: Knex): Promise<void> {

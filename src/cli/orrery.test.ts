@@ -27,6 +27,49 @@ function run(argv: string[], files: Record<string, string> = {}) {
 	return { code, out: out.join('\n'), err: err.join('\n'), written };
 }
 
+describe('orrery check with the document’s own specs and domain', () => {
+	const modDoc = (value: string) =>
+		JSON.stringify(
+			{
+				format: 'orrery.circuit',
+				version: 1,
+				title: 'modular adder',
+				registers: [{ name: 'b', size: 5, role: 'output' }, { name: 'anc', size: 1, role: 'ancilla' }],
+				body: [
+					{ id: 'f', type: 'qft', register: 'b', swaps: false },
+					{ id: 'm', type: 'mod-add', target: 'b', value, modulus: '13', ancilla: { register: 'anc', index: 0 } },
+					{ id: 'g', type: 'iqft', register: 'b', swaps: false }
+				],
+				specs: ['b = b + 9 mod 13'],
+				assume: ['b < 13']
+			},
+			null,
+			2
+		);
+	it('without --spec uses the document’s specs and assume (13 inputs, b < 13), exit 0', () => {
+		const r = run(['check', 'm.json'], { 'm.json': modDoc('9') });
+		expect(r.code).toBe(0);
+		expect(r.out).toContain('specs: b = b + 9 mod 13');
+		expect(r.out).toContain('domain: b < 13 (13 inputs inside it checked)');
+		const j = JSON.parse(run(['check', 'm.json', '--json'], { 'm.json': modDoc('9') }).out);
+		expect(j.domain).toEqual({ conditions: ['b < 13'], inputs: 13 });
+	});
+	it('refutes a constant not reduced mod N (exit 1), and a document without specs is a usage error (exit 2)', () => {
+		// 9 + 13 = 22 ≡ 9 mod 13 but the adder takes 22 as written; b + 22 − 13 ≥ 2^4 flips the sign copy.
+		expect(run(['check', 'm.json'], { 'm.json': modDoc('22') }).code).toBe(1);
+		const bare = JSON.parse(modDoc('9'));
+		delete bare.specs;
+		const r = run(['check', 'm.json'], { 'm.json': JSON.stringify(bare) });
+		expect(r.code).toBe(2);
+		expect(r.err).toContain('m.json states no specs of its own');
+	});
+	it('a bad condition names the flag or the file', () => {
+		const r = run(['check', 'm.json', '--spec', 'b = b + 9 mod 13', '--assume', 'b +'], { 'm.json': modDoc('9') });
+		expect(r.code).toBe(2);
+		expect(r.err).toContain('--assume');
+	});
+});
+
 describe('orrery check', () => {
 	it('exit 0 and a plain summary when every input meets the spec', () => {
 		const r = run(['check', `${fixtures}adder3.qasm`, '--spec', 'b = a + b mod 8']);

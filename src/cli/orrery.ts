@@ -34,7 +34,8 @@ const nodeIo: Io = {
 
 
 const USAGE = `usage: orrery <command> [options]
-  check FILE --spec "OUT = EXPR" [--spec …] [--inputs all|random:N|a=5,b=3] [--seed N] [--json]
+  check FILE [--spec "OUT = EXPR" …] [--assume "b < N" …] [--inputs all|random:N|a=5,b=3] [--seed N] [--json]
+                            without --spec: the document's own specs and domain (its "assume")
   run FILE --input a=5,b=3 [--engine ledger|amplitudes] [--step N] [--json]
   count FILE [--json]
   convert IN OUT            (.qasm = OpenQASM 2 unless its header says 3, .qasm3 = OpenQASM 3, .json = document)
@@ -51,7 +52,7 @@ Reading a file (every command):
   --param NAME=VALUE        value of an OpenQASM 3 "input angle NAME;" (or int), e.g. theta=pi/8; repeatable
 Registers read little-endian: name[0] is the least-significant bit.`;
 
-const VALUED = new Set(['--spec', '--inputs', '--input', '--engine', '--step', '--seed', '--ancilla', ...FILE_OPTIONS]);
+const VALUED = new Set(['--spec', '--assume', '--inputs', '--input', '--engine', '--step', '--seed', '--ancilla', ...FILE_OPTIONS]);
 const parseArgs = (argv: string[]) => parseCliArgs(argv, VALUED);
 
 /** Read a circuit file by extension / header. */
@@ -97,7 +98,8 @@ function printCheck(r: CheckReport, path: string, io: Io): void {
 	const lines: string[] = [];
 	lines.push(`${path}: ${r.ok ? 'PASS' : 'FAIL'} (simulated, not a hardware run)`);
 	lines.push(`  specs: ${r.specs.join('; ')}`);
-	lines.push(`  inputs: ${r.inputs.registers.join(', ') || '(none)'} (${r.inputs.bits} bits), ${r.cases} checked${r.exhaustive ? ' (all)' : ''}, ${r.failed} failed`);
+	if (r.domain.conditions.length) lines.push(`  domain: ${r.domain.conditions.join(' and ')} (${r.domain.inputs} input${r.domain.inputs === 1 ? '' : 's'} inside it checked)`);
+	lines.push(`  inputs: ${r.inputs.registers.join(', ') || '(none)'} (${r.inputs.bits} bits), ${r.cases} checked${r.exhaustive ? (r.domain.conditions.length ? ' (all of the domain)' : ' (all)') : ''}, ${r.failed} failed`);
 	lines.push(`  worst-case success probability: ${r.worstSuccessProbability}`);
 	lines.push(`  method: ${r.method}; proof: ${r.proof.status}${r.proof.reason ? ` (${r.proof.reason})` : ''}`);
 	for (const s of r.proof.sections) lines.push(`  section on ${s.register}: QFT gates ${s.qftGates.join('–')}, inverse ${s.iqftGates.join('–')}, layout ${s.layout}`);
@@ -109,7 +111,7 @@ function printCheck(r: CheckReport, path: string, io: Io): void {
 	for (const m of r.proof.registerMismatches.slice(0, 10)) lines.push(`  ${m.register ? `${m.qubit} ends holding ${m.holds}, expected ${m.expected}` : m.holds}`);
 	for (const s of r.suspects.slice(0, 5))
 		lines.push(`  suspect: line ${s.line ?? '?'}${s.definitionLines.length ? ` (via gate definition line ${s.definitionLines.join(', ')})` : ''} (gate ${s.gate}, ${s.kind} on ${s.qubit}): ${s.reason}`);
-	for (const n of r.notes.slice(1)) lines.push(`  note: ${n}`);
+	for (const n of r.notes.slice(1)) if (!n.startsWith('domain: ')) lines.push(`  note: ${n}`);
 	io.out(lines.join('\n'));
 }
 const fmt = (o: Record<string, string>) => Object.entries(o).map(([k, v]) => `${k}=${v}`).join(',');
@@ -139,11 +141,22 @@ export function main(argv: string[], io: Io = nodeIo): number {
 		switch (cmd) {
 			case 'check': {
 				if (rest.length !== 1) throw new UsageError('check needs exactly one FILE');
-				const specs = args.flags.get('--spec') ?? [];
-				if (!specs.length) throw new UsageError('check needs at least one --spec "OUT = EXPR"');
+				const given = args.flags.get('--spec') ?? [];
 				const { doc, warnings, notes, definitionLines } = loadDocument(rest[0], io);
+				// Without --spec the document speaks for itself: its specs, and the domain they hold on.
+				const own = given.length === 0;
+				const specs = own ? (doc.specs ?? []) : given;
+				if (!specs.length) throw new UsageError(`check needs at least one --spec "OUT = EXPR"; ${rest[0]} states no specs of its own`);
+				const assume = [...(own ? (doc.assume ?? []) : []), ...(args.flags.get('--assume') ?? [])];
 				const c = lower(doc, rest[0]);
-				const r = checkCircuit(c, specs, { inputs: inputChoice(args, c), definitionLines });
+				let r: ReturnType<typeof checkCircuit>;
+				try {
+					r = checkCircuit(c, specs, { inputs: inputChoice(args, c), definitionLines, assume });
+				} catch (e) {
+					if (own && e instanceof SpecError) throw new UsageError(`${rest[0]}: ${e.message}`);
+					if (e instanceof SpecError && !specs.includes(e.spec)) throw new UsageError(`--assume: ${e.message}`);
+					throw e;
+				}
 				if (!json) for (const w of warnings) io.err(w);
 				if (json) io.out(JSON.stringify({ ...r, importNotes: notes }, null, 2));
 				else {

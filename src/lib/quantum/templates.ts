@@ -2,13 +2,63 @@
 // Qubit order: index 0 is the least significant bit. Angles are radian expressions.
 import { CIRCUIT_FORMAT, CIRCUIT_VERSION, type BodyItem, type CircuitDocument } from './circuit.js';
 
-export type TemplateName = 'blank' | 'adder' | 'multiplier';
+export type TemplateName = 'blank' | 'adder' | 'multiplier' | 'modular-adder' | 'modular-multiplier' | 'period-finding';
+
+/** Template names, for form validation. */
+export const TEMPLATE_NAMES = ['blank', 'adder', 'multiplier', 'modular-adder', 'modular-multiplier', 'period-finding'] as const satisfies readonly TemplateName[];
 
 export const TEMPLATES: { name: TemplateName; title: string; text: string }[] = [
 	{ name: 'blank', title: 'Empty', text: 'two 3-qubit registers a and b, nothing else' },
 	{ name: 'adder', title: '3-bit Fourier adder', text: 'QFT on b, b += a, inverse QFT' },
-	{ name: 'multiplier', title: '3-bit multiplier', text: 'p += a·b by controlled shifted adds' }
+	{ name: 'multiplier', title: '3-bit multiplier', text: 'p += a·b by controlled shifted adds' },
+	{ name: 'modular-adder', title: 'Modular adder', text: 'b ← (b + a) mod N in the Fourier basis, for b < N (N = 2^bits − 1)' },
+	{ name: 'modular-multiplier', title: 'Controlled modular multiplier', text: 'if c: b ← (b + 2·x) mod N, for b < N' },
+	{ name: 'period-finding', title: 'Period finding N = 21, a = 2', text: 'y ← 2^e·y mod 21: one controlled in-place multiplier per exponent bit (fixed sizes)' }
 ];
+
+/** The constants a^(2^i) mod N of the exponentiation, one per exponent bit. */
+function squarings(a: bigint, N: bigint, count: number): bigint[] {
+	const out: bigint[] = [];
+	let c = a % N;
+	for (let i = 0; i < count; i++) {
+		out.push(c);
+		c = (c * c) % N;
+	}
+	return out;
+}
+
+/**
+ * Period finding for N = 21, a = 2 (Beauregard 2003's layout with a full exponent register):
+ * exponent e of t = 9 qubits (2^9 = 512 ≥ N² = 441), y of n = 5 qubits starting at 1, a work
+ * register of n+1 = 6 qubits and one comparison ancilla. Each exponent bit i controls an
+ * in-place multiplier by 2^(2^i) mod 21, written out so the constants can be read (and, in
+ * the demo's faulty copy, got wrong).
+ */
+export function periodFinding(title?: string): CircuitDocument {
+	const N = 21n;
+	const t = 9;
+	const body: BodyItem[] = squarings(2n, N, t).map((c, i) => ({
+		id: `mul-e${i}`,
+		type: 'mod-mul-inplace',
+		x: 'y',
+		work: 'w',
+		value: String(c),
+		modulus: String(N),
+		control: { register: 'e', index: i },
+		ancilla: { register: 'anc', index: 0 },
+		label: `y ← ${c}·y mod 21 if e[${i}]`
+	}));
+	const d = doc(title || 'Period finding N = 21, a = 2', [
+		{ name: 'e', size: t, role: 'input' },
+		{ name: 'y', size: 5, role: 'output' },
+		{ name: 'w', size: 6, role: 'work' },
+		{ name: 'anc', size: 1, role: 'ancilla' }
+	], body);
+	d.description = 'Modular exponentiation y ← 2^e·y mod 21 for period finding. Checked over its domain y = 1 (the work register of period finding starts at 1): every exponent e, work register and ancilla back to 0.';
+	d.specs = ['y = 2^e * y mod 21'];
+	d.assume = ['y == 1'];
+	return d;
+}
 
 function doc(title: string, registers: CircuitDocument['registers'], body: BodyItem[]): CircuitDocument {
 	return { format: CIRCUIT_FORMAT, version: CIRCUIT_VERSION, title, registers, body };
@@ -41,7 +91,49 @@ export function makeTemplate(name: TemplateName, title?: string, n = 3): Circuit
 				{ name: 'b', size: n, role: 'input' },
 				{ name: 'p', size: 2 * n, role: 'output' }
 			], [{ id: 'mul', type: 'multiply', a: 'a', b: 'b', product: 'p' }]));
+		case 'modular-adder': {
+			const k = Math.max(2, n);
+			const N = 2 ** k - 1;
+			const a = Math.max(1, N - 2);
+			const d = withSpec(`b = b + ${a} mod ${N}`, doc(title || `Modular adder mod ${N}`, [
+				{ name: 'b', size: k + 1, role: 'output' },
+				{ name: 'anc', size: 1, role: 'ancilla' }
+			], [
+				{ id: 'qft-b', type: 'qft', register: 'b', swaps: false },
+				{ id: 'madd', type: 'mod-add', target: 'b', value: String(a), modulus: String(N), ancilla: { register: 'anc', index: 0 } },
+				{ id: 'iqft-b', type: 'iqft', register: 'b', swaps: false }
+			]));
+			d.assume = [`b < ${N}`];
+			return d;
+		}
+		case 'modular-multiplier': {
+			const k = Math.max(2, n);
+			const N = 2 ** k - 1;
+			const d = withSpec(`b = b + c*2*x mod ${N}`, doc(title || `Controlled modular multiplier mod ${N}`, [
+				{ name: 'c', size: 1, role: 'input' },
+				{ name: 'x', size: k, role: 'input' },
+				{ name: 'b', size: k + 1, role: 'output' },
+				{ name: 'anc', size: 1, role: 'ancilla' }
+			], [{ id: 'mmul', type: 'mod-mul', x: 'x', target: 'b', value: '2', modulus: String(N), control: { register: 'c', index: 0 }, ancilla: { register: 'anc', index: 0 } }]));
+			d.assume = [`b < ${N}`];
+			return d;
+		}
+		case 'period-finding':
+			return periodFinding(title);
 	}
+}
+
+/**
+ * Demo: the period-finding circuit with one constant not reduced mod N: the multiplier for
+ * exponent bit 2 says 58 where 58 mod 21 = 16 belongs. Its first adder then adds 58, the sign
+ * copy sees b + a − N = 37 ≥ 2^5 and the comparison ancilla goes wrong.
+ */
+export function periodFindingUnreduced(): CircuitDocument {
+	const d = periodFinding('Period finding N = 21, a = 2 (one constant to check)');
+	const item = d.body[2] as { value: string; label?: string };
+	item.value = '58';
+	item.label = 'y ← 58·y mod 21 if e[2]';
+	return d;
 }
 
 /**

@@ -7,6 +7,7 @@ import { GateCode, gateAt, gateDisplayName, gateProvenance, type CircuitDocument
 import { parseInputValue } from './inputs';
 import { evaluateSpec, parseSpec, SpecError } from '$lib/quantum/check/spec';
 import { checkCircuit, countResources, type InputChoice } from '$lib/quantum/check/index';
+import { modularFigures } from '$lib/quantum/check/modular-resources';
 import { proveCircuit } from '$lib/quantum/check/proof';
 import { specPolynomial, type IntPoly } from '$lib/quantum/check/spec';
 import { findFourierSections, type FourierSection } from '$lib/quantum/intent';
@@ -178,6 +179,7 @@ export class EngineSession {
 			warnings: [...problems, ...this.run.intentWarnings, ...this.run.expectations.warnings.map((w) => w.message)],
 			keyframeChecksums: this.run.keyframeChecksums,
 			resources: countResources(c),
+			modular: modularFigures(req.doc, c),
 			millis: Date.now() - t0
 		};
 	}
@@ -345,6 +347,7 @@ export function runCheck(req: Extract<WorkerRequest, { type: 'check' }>, progres
 	let last = 0;
 	const report = checkCircuit(c, specs, {
 		inputs: choice,
+		assume: req.doc.assume,
 		onProgress: (done, total) => {
 			const now = Date.now();
 			if (now - last > 60 || done === total) {

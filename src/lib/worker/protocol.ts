@@ -4,6 +4,7 @@
 import type { CircuitDocument } from '$lib/quantum/circuit';
 import type { DialQubit } from '$lib/dials/dial-model';
 import type { CheckReport, ResourceCounts } from '$lib/quantum/check/index';
+import type { ModularFigures } from '$lib/quantum/check/modular-resources';
 
 export interface RunRequestInputs {
 	/** Decimal (or 0b… binary) value per register. */
@@ -58,6 +59,8 @@ export interface RunSummary {
 	warnings: string[];
 	keyframeChecksums: { step: number; checksum: string }[];
 	resources: ResourceCounts;
+	/** Formula against lowered counts for each top-level modular part, with published qubit counts. */
+	modular: ModularFigures[];
 	millis: number;
 }
 
