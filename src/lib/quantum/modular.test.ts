@@ -19,6 +19,23 @@ function sweepAll(d: CircuitDocument, spec: string, domain: string[]) {
 	return sweepCircuit(c, [s], { choice: { mode: 'all' }, domain: domain.map((t) => parseCondition(t, c.registers)) });
 }
 
+/**
+ * The exhaustive sweep over the domain and the prover (decision diagrams) must agree: both say
+ * right. Known gap (reported to the prover's owner): with the quarter-angle lowering the prover
+ * proposes a failing input that the engines do not confirm, so it says "undecided"; it must never
+ * say "refuted" there, and the exhaustive sweep still covers every input of the domain.
+ */
+function sweepAndProve(d: CircuitDocument, spec: string, domain: string[]) {
+	const c = lowerCircuit(d);
+	const r = checkCircuit(c, [spec], { assume: domain, inputs: { mode: 'all' } });
+	expect(r.exhaustive).toBe(true);
+	expect(r.failed).toBe(0);
+	const quarter = d.body.some((b) => 'ccpLowering' in b && b.ccpLowering === 'quarter');
+	if (quarter) expect(['proved', 'undecided']).toContain(r.proof.status);
+	else expect(r.proof.status).toBe('proved');
+	return r;
+}
+
 const LOWERINGS: CcpLowering[] = ['native', 'ancilla', 'no-ancilla', 'quarter'];
 
 describe('number theory helpers', () => {
@@ -79,8 +96,7 @@ describe('modular adder (Fig. 5): exhaustive sweep over b < N, every control pat
 						{ id: 'g', type: 'iqft', register: 'b', swaps: false }
 					]);
 					const factor = controls === 0 ? '' : controls === 1 ? '(c mod 2)*' : '(c == 3)*';
-					const r = sweepAll(d, `b = b + ${factor}${a} mod ${N}`, [`b < ${N}`]);
-					expect(r.exhaustive).toBe(true);
+					const r = sweepAndProve(d, `b = b + ${factor}${a} mod ${N}`, [`b < ${N}`]);
 					expect(r.cases).toBe((controls ? 4 : 1) * N); // every c the spec reads, every b < N
 					expect(r.failed).toBe(0); // includes: anc back to |0⟩ on every input
 				});
@@ -127,7 +143,7 @@ describe('modular multiplier, out of place (Fig. 6): b ← (b + c·a·x) mod N o
 						],
 						[{ id: 'm', type: 'mod-mul', x: 'x', target: 'b', value: String(a), modulus: String(N), ancilla: { register: 'anc', index: 0 }, ccpLowering: lowering, ...(controlled ? { control: { register: 'c', index: 0 } } : {}) }]
 					);
-					const r = sweepAll(d, `b = b + ${controlled ? 'c*' : ''}${a}*x mod ${N}`, [`b < ${N}`, ...(controlled ? [] : ['c == 0'])]);
+					const r = (n <= 3 ? sweepAndProve : sweepAll)(d, `b = b + ${controlled ? 'c*' : ''}${a}*x mod ${N}`, [`b < ${N}`, ...(controlled ? [] : ['c == 0'])]);
 					expect(r.cases).toBe((controlled ? 2 : 1) * N * 2 ** n);
 					expect(r.failed).toBe(0);
 				});
@@ -154,7 +170,7 @@ describe('modular multiplier in place (Fig. 7): x ← a·x mod N over x < N, wor
 						[{ id: 'm', type: 'mod-mul-inplace', x: 'x', work: 'w', value: String(a), modulus: String(N), ancilla: { register: 'anc', index: 0 }, ccpLowering: lowering, ...(controlled ? { control: { register: 'c', index: 0 } } : {}) }]
 					);
 					const spec = controlled ? `x = x + c*(${a}*x mod ${N} - x)` : `x = ${a}*x mod ${N}`;
-					const r = sweepAll(d, spec, [`x < ${N}`, ...(controlled ? ['c < 2'] : ['c == 0'])]);
+					const r = (n <= 3 ? sweepAndProve : sweepAll)(d, spec, [`x < ${N}`, ...(controlled ? ['c < 2'] : ['c == 0'])]);
 					expect(r.cases).toBe((controlled ? 2 : 1) * N);
 					expect(r.failed).toBe(0); // w and anc end at 0 on every input
 				});
@@ -265,7 +281,7 @@ describe('dials: expected values inside the modular adder follow the constructio
 });
 
 describe('check over a domain', () => {
-	it('checkCircuit with assume runs only the domain, says so, and leaves the prover out', () => {
+	it('checkCircuit with assume runs only the domain, says so, and the prover agrees', () => {
 		const d = doc(
 			[
 				{ name: 'b', size: 5, role: 'output' },

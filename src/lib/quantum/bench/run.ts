@@ -13,6 +13,7 @@ import { Run } from '../run.js';
 import type { CcpLowering, CircuitDocument } from '../circuit.js';
 import { checkBenches } from './check-benches.js';
 import { measureImport } from './import-bench.js';
+import { modularBenches } from './modular-benches.js';
 
 interface Figure {
 	name: string;
@@ -182,6 +183,8 @@ for (const lowering of ['native', 'no-ancilla'] as const) {
 
 // The checker's benches (proofs of 32- and 64-bit multipliers, sweep throughput, import).
 benches.push(...checkBenches);
+// The modular parts: a 16-bit modular exponentiation on the ledger, the 8-bit modular multiplier's proof.
+benches.push(...modularBenches);
 
 // The OpenQASM importer on a 200 000-gate exporter-style file, against splitting the same text
 // into lines (the least any reader must do). Target: ≥ 1 000 000 gates/s.
