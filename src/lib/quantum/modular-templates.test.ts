@@ -23,18 +23,19 @@ describe('modular templates check over their own specs and domains', () => {
 	it('period finding N = 21, a = 2: every exponent, y = 1', () => {
 		const d = periodFinding();
 		const c = lowerCircuit(d);
-		const r = checkCircuit(c, d.specs!, { assume: d.assume });
+		// Sweep only: every input of the domain (512). The prover is left out here: it cannot take an
+		// exponent register in a spec yet and spends its whole time budget finding that out.
+		const r = checkCircuit(c, d.specs!, { assume: d.assume, proof: false });
 		expect(r.ok).toBe(true);
 		expect(r.cases).toBe(512);
+		expect(r.exhaustive).toBe(true);
 		const run = new Run(c, { values: { e: 6, y: 1 } });
 		expect(run.frameAt(c.gateCount).registerValues.y).toBe(powMod(2n, 6n, 21n));
-		// the prover cannot take an exponent register in a spec yet: it must say so, never guess
-		expect(r.proof.status).not.toBe('refuted');
 	}, 180_000);
 	it('the copy with one constant not reduced mod 21 is refuted; its first divergence is the comparison ancilla', () => {
 		const d = periodFindingUnreduced();
 		const c = lowerCircuit(d);
-		const r = checkCircuit(c, d.specs!, { assume: d.assume });
+		const r = checkCircuit(c, d.specs!, { assume: d.assume, proof: false });
 		expect(r.ok).toBe(false);
 		const bad = r.failures[0];
 		expect(BigInt(bad.input.e) & 4n).toBe(4n); // exponent bit 2 is set on every failing input
