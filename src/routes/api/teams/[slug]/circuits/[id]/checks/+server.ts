@@ -21,24 +21,35 @@ export const GET: RequestHandler = apiRoute(async ({ locals, params }) => {
 	return json({ latest, checks: rows.map((r) => checkView(r, null)) }, { headers: { 'cache-control': 'no-store' } });
 });
 
-// Only a version to check: the server runs the proof and the sweep itself. The old body that carried
-// a client's verdict (ok, cases, failed, …) is refused by name, so an old script learns why.
-const requestSchema = z.strictObject({ version: z.number().int().min(1).optional() });
+// A version to check. The old body that carried a client's verdict (ok, cases, failed, …, still sent
+// by the command line's push) is taken only as "reported by the command line": it never sets the
+// verdict; the server queues its own check of that version instead.
+const requestSchema = z.object({
+	version: z.number().int().min(1).optional(),
+	ok: z.boolean().optional(),
+	method: z.string().max(32).optional(),
+	cases: z.number().int().min(0).optional(),
+	failed: z.number().int().min(0).optional(),
+	exhaustive: z.boolean().optional()
+});
 
 /** POST {version?}: queue a server check of that version (default the latest). 202 with the queued check. */
 export const POST: RequestHandler = apiRoute(async ({ locals, params, request }) => {
 	const access = await requireTeamRole(locals, params.slug, 'check.run');
 	const circuit = await findCircuit(db, access.team.id, params.id);
 	if (!circuit) error(404, NOT_FOUND);
-	const raw = await request.clone().json().catch(() => null);
-	if (raw && typeof raw === 'object' && 'ok' in raw)
-		error(400, { message: 'A client cannot set a verdict: the server runs every check itself. Send {"version": N} (or nothing) to queue one.', code: 'bad_request' });
 	const body = await readJson(request, requestSchema);
 	const version = body.version ?? circuit.latest_version;
 	const v = await findVersion(db, circuit.id, version);
 	if (!v) error(404, { message: `This circuit has no version ${version}.`, code: 'not_found' });
 	if (!v.document.specs?.length) error(422, { message: `Version ${version} has no specs, so there is nothing to check; add one such as "b = a + b mod 8".`, code: 'unprocessable' });
-	const row = await enqueueCheck(db, { teamId: access.team.id, circuitId: circuit.id, version, userId: access.user.id, reason: 'request' });
+	const reported = body.ok !== undefined;
+	const row = await enqueueCheck(db, { teamId: access.team.id, circuitId: circuit.id, version, userId: access.user.id, reason: reported ? 'push' : 'request' });
 	if (!row) error(404, { message: `This circuit has no version ${version}.`, code: 'not_found' });
-	return json({ check: checkView(row, null) }, { status: 202 });
+	return json(
+		reported
+			? { check: checkView(row, null), reported: { by: 'command line', ok: body.ok, verdictSet: false }, message: 'A client cannot set a verdict: the server queued its own check of this version.' }
+			: { check: checkView(row, null) },
+		{ status: 202 }
+	);
 });
