@@ -10,6 +10,9 @@ import { checkCircuit, parseSpec, proveCircuit, sweepCircuit } from '../check/in
 import { specPolynomial } from '../check/spec.js';
 import { exportQasm } from '../qasm/export.js';
 import { importQasm } from '../qasm/import.js';
+import { parseCondition } from '../check/spec.js';
+import { symbolicProve } from '../check/symbolic.js';
+import { beauregardCMult, beauregardModAdder, cuccaroAdder } from '../testing/arith.js';
 
 /** One measured figure. */
 export interface CheckFigure {
@@ -55,8 +58,32 @@ function proofBench(n: number, lowering: CcpLowering): CheckBench {
 	};
 }
 
+/** The general prover on a whole circuit document carrying its specs and domain (expects `proved`). */
+function symbolicBench(name: string, doc: CircuitDocument): CheckBench {
+	return {
+		name: `proof-${name}`,
+		run: () => {
+			const c = lowerCircuit(doc);
+			const specs = doc.specs!.map((t) => parseSpec(t, c.registers));
+			const conditions = (doc.assume ?? []).map((t) => parseCondition(t, c.registers));
+			const inputs = [...new Set([...specs.flatMap((x) => x.reads), ...conditions.flatMap((x) => x.reads)])];
+			const t0 = performance.now();
+			const r = symbolicProve(c, { specs, conditions, inputs, limits: { maxNodes: 8_000_000, timeMs: 120_000 } });
+			const ms = performance.now() - t0;
+			if (r.status !== 'proved') throw new Error(`proof of ${doc.title} did not succeed: ${r.status} ${r.reason ?? ''}`);
+			return [
+				{ name: `proof ${doc.title} (${c.gateCount} gates, ${r.domain.count} domain inputs, ${r.nodes} BDD nodes)`, value: Math.round(ms), unit: 'ms' },
+				{ name: `proof ${name} gates per second`, value: Math.round(c.gateCount / (ms / 1000)), unit: 'gates/s' }
+			];
+		}
+	};
+}
+
 /** The checker's benches. */
 export const checkBenches: CheckBench[] = [
+	symbolicBench('cuccaro64', cuccaroAdder(64)),
+	symbolicBench('modadd16', beauregardModAdder(16, 65521n, 12345n)),
+	symbolicBench('cmult8', beauregardCMult(8, 251n, 7n)),
 	proofBench(32, 'native'),
 	proofBench(64, 'native'),
 	proofBench(32, 'quarter'),

@@ -141,3 +141,25 @@ describe('spec bits and conditions', () => {
 		expect(() => parseCondition('b < ', regs)).toThrow(/does not parse/);
 	});
 });
+
+describe('BDD unique table across rehashes', () => {
+	it('stays canonical past several table growths (a regression: a rehash once linked the new node to itself)', () => {
+		const d = new Bdd(22, { maxNodes: 8_000_000 });
+		const v = Array.from({ length: 22 }, (_, i) => d.variable(i));
+		// the middle bits of an 11 × 11-bit product have large BDDs: enough nodes to grow the table (first at 2^17)
+		const ops = new WordOps(d);
+		const a = ops.unsigned(v.slice(0, 11));
+		const b = ops.unsigned(v.slice(11));
+		const p = ops.mul(a, b);
+		expect(d.size).toBeGreaterThan(140_000);
+		// rebuilding gives the same nodes (canonical, every lookup terminates)
+		const p2 = ops.mul(a, b);
+		expect(p2.bits).toEqual(p.bits);
+		const x = 0x2c3f1;
+		const asg = new Uint8Array(22);
+		for (let i = 0; i < 22; i++) asg[i] = (x >> i) & 1;
+		let got = 0n;
+		p.bits.forEach((f, i) => d.evaluate(f, asg) && i < p.bits.length - 1 && (got |= 1n << BigInt(i)));
+		expect(got).toBe(BigInt(x & 0x7ff) * BigInt(x >> 11)); // plain BigInt product as the reference
+	});
+});

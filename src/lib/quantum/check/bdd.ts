@@ -26,6 +26,16 @@ export class BddLimit extends Error {
 	}
 }
 
+/** A well-mixed 32-bit hash of three integers (the low bits depend on every input bit, so masks spread). */
+function hash3(a: number, b: number, c: number): number {
+	let h = Math.imul(a, 0x9e3779b1) ^ Math.imul(b + 0x7f4a7c15, 0x85ebca6b) ^ Math.imul(c + 0x165667b1, 0xc2b2ae35);
+	h ^= h >>> 16;
+	h = Math.imul(h, 0x7feb352d);
+	h ^= h >>> 15;
+	h = Math.imul(h, 0x846ca68b);
+	return h ^ (h >>> 16);
+}
+
 export const FALSE = 0;
 export const TRUE = 1;
 const TERMINAL_LEVEL = 0x7fffffff;
@@ -87,7 +97,7 @@ export class Bdd {
 	/** The unique node (level, lo, hi), reduced. */
 	mk(level: number, lo: number, hi: number): number {
 		if (lo === hi) return lo;
-		const h = (Math.imul(level, 0x9e3779b1) ^ Math.imul(lo, 0x85ebca6b) ^ Math.imul(hi, 0xc2b2ae35)) & this.bucketMask;
+		const h = hash3(level, lo, hi) & this.bucketMask;
 		for (let n = this.buckets[h]; n >= 0; n = this.next[n]) if (this.level[n] === level && this.lo[n] === lo && this.hi[n] === hi) return n;
 		if (this.size >= this.limits.maxNodes) throw new BddLimit('nodes', `the decision diagrams passed the limit of ${this.limits.maxNodes} nodes`);
 		if (this.size === this.level.length) this.grow();
@@ -95,10 +105,11 @@ export class Bdd {
 		this.level[n] = level;
 		this.lo[n] = lo;
 		this.hi[n] = hi;
-		if (this.size > this.buckets.length * 2) this.rehash();
-		const hb = (Math.imul(level, 0x9e3779b1) ^ Math.imul(lo, 0x85ebca6b) ^ Math.imul(hi, 0xc2b2ae35)) & this.bucketMask;
-		this.next[n] = this.buckets[hb];
-		this.buckets[hb] = n;
+		if (this.size > this.buckets.length * 2) this.rehash(); // re-inserts every node, n included
+		else {
+			this.next[n] = this.buckets[h];
+			this.buckets[h] = n;
+		}
 		if ((++this.ticks & 0xfff) === 0 && this.limits.clock() > this.limits.deadline) throw new BddLimit('time', 'the proof passed its time limit');
 		return n;
 	}
@@ -121,7 +132,7 @@ export class Bdd {
 		this.buckets = new Int32Array(nb).fill(-1);
 		this.bucketMask = nb - 1;
 		for (let n = 2; n < this.size; n++) {
-			const h = (Math.imul(this.level[n], 0x9e3779b1) ^ Math.imul(this.lo[n], 0x85ebca6b) ^ Math.imul(this.hi[n], 0xc2b2ae35)) & this.bucketMask;
+			const h = hash3(this.level[n], this.lo[n], this.hi[n]) & this.bucketMask;
 			this.next[n] = this.buckets[h];
 			this.buckets[h] = n;
 		}
@@ -144,7 +155,7 @@ export class Bdd {
 		if (g === f) g = TRUE;
 		if (h === f) h = FALSE;
 		if (g === h) return g;
-		const k = (Math.imul(f, 0x9e3779b1) ^ Math.imul(g, 0x85ebca6b) ^ Math.imul(h, 0x27d4eb2f)) & this.cacheMask;
+		const k = hash3(f, g, h) & this.cacheMask;
 		if (this.cacheF[k] === f && this.cacheG[k] === g && this.cacheH[k] === h) return this.cacheR[k];
 		if ((++this.calls & 0xffff) === 0 && this.limits.clock() > this.limits.deadline) throw new BddLimit('time', 'the proof passed its time limit');
 		const lf = this.level[f];
