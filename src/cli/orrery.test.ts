@@ -186,3 +186,47 @@ describe('orrery equiv', () => {
 		expect(r.err).toContain('must match');
 	});
 });
+
+describe('orrery check: verdicts, domains and phases (issues 13 and 14)', () => {
+	const files = (d: object) => ({ 'c.json': JSON.stringify(d) });
+	it('a 5-bit Cuccaro adder document is proved from its own specs; the faulty one is refuted with a command to step it', async () => {
+		const { cuccaroAdder } = await import('../lib/quantum/testing/arith.js');
+		const ok = run(['check', 'c.json'], files(cuccaroAdder(5)));
+		expect(ok.code).toBe(0);
+		expect(ok.out).toMatch(/Proved: right for every one of the 1024 inputs \(values and phase\)/);
+		const bad = run(['check', 'c.json', '--json'], files(cuccaroAdder(5, 'uncompute-cnot-reversed')));
+		expect(bad.code).toBe(1);
+		const j = JSON.parse(bad.out);
+		expect(j.proof.status).toBe('refuted');
+		expect(j.proof.counterexample).toEqual({ a: '4', b: '0' }); // the BDD's first satisfying assignment of "c[0] = a[2]"
+		const text = run(['check', 'c.json'], files(cuccaroAdder(5, 'uncompute-cnot-reversed')));
+		expect(text.out).toContain('step it: npm run orrery -- run c.json --input a=4,b=0');
+	});
+	it('--assume restricts the domain; the report states it and its size', async () => {
+		const { beauregardModAdder } = await import('../lib/quantum/testing/arith.js');
+		const d = { ...beauregardModAdder(5, 21n, 8n), assume: [] };
+		const wide = JSON.parse(run(['check', 'c.json', '--json'], files(d)).out);
+		expect(wide.proof.status).toBe('refuted');
+		const r = JSON.parse(run(['check', 'c.json', '--assume', 'b < 21', '--json'], files(d)).out);
+		expect([r.ok, r.proof.status, r.domain.count, r.cases]).toEqual([true, 'proved', '84', 84]);
+		expect(run(['check', 'c.json', '--assume', 'b <'], files(d)).err).toMatch(/b </);
+	});
+	it('a crz Fourier adder fails on its phase with the terms named; --ignore-phase passes it', async () => {
+		const { fourierAdderQasm } = await import('../lib/quantum/testing/arith.js');
+		const f = { 'crz.qasm': fourierAdderQasm(4, 'crz') };
+		const r = run(['check', 'crz.qasm', '--spec', 'b = a + b mod 16'], f);
+		expect(r.code).toBe(1);
+		expect(r.out).toContain('phase term -15/32 turn · a[0] on the whole state');
+		expect(r.out).toMatch(/Refuted: input .* ends with a different phase than/);
+		const ignored = run(['check', 'crz.qasm', '--spec', 'b = a + b mod 16', '--ignore-phase'], f);
+		expect(ignored.code).toBe(0);
+		expect(ignored.out).toContain('phases ignored');
+	});
+	it('--proof-limit bounds the proof: undecided, with the limit named; a bad value is refused', async () => {
+		const { cuccaroAdder } = await import('../lib/quantum/testing/arith.js');
+		const r = JSON.parse(run(['check', 'c.json', '--proof-limit', '100', '--inputs', 'random:5', '--json'], files(cuccaroAdder(20))).out);
+		expect([r.proof.status, r.proof.limit]).toEqual(['undecided', 'nodes']);
+		const bad = run(['check', 'c.json', '--proof-limit', 'lots'], files(cuccaroAdder(5)));
+		expect([bad.code, bad.err]).toEqual([2, expect.stringMatching(/--proof-limit: expected a number/)]);
+	});
+});

@@ -34,8 +34,12 @@ const nodeIo: Io = {
 
 
 const USAGE = `usage: orrery <command> [options]
-  check FILE [--spec "OUT = EXPR" …] [--assume "b < N" …] [--inputs all|random:N|a=5,b=3] [--seed N] [--json]
-                            without --spec: the document's own specs and domain (its "assume")
+  check FILE [--spec "OUT = EXPR" …] [--assume "b < 13" …] [--inputs all|random:N|a=5,b=3]
+        [--seed N] [--ignore-phase] [--proof-limit NODES] [--proof-time SECONDS] [--json]
+                            sweep the inputs and prove: proved (every input of the domain, values and
+                            phase), refuted (with a failing input you can step: see "run"), or
+                            undecided (with the reason); a JSON document's own specs and assume
+                            are used when no --spec is given
   run FILE --input a=5,b=3 [--engine ledger|amplitudes] [--step N] [--json]
   count FILE [--json]
   convert IN OUT            (.qasm = OpenQASM 2 unless its header says 3, .qasm3 = OpenQASM 3, .json = document)
@@ -52,7 +56,26 @@ Reading a file (every command):
   --param NAME=VALUE        value of an OpenQASM 3 "input angle NAME;" (or int), e.g. theta=pi/8; repeatable
 Registers read little-endian: name[0] is the least-significant bit.`;
 
-const VALUED = new Set(['--spec', '--assume', '--inputs', '--input', '--engine', '--step', '--seed', '--ancilla', ...FILE_OPTIONS]);
+const VALUED = new Set(['--spec', '--assume', '--proof-limit', '--proof-time', '--inputs', '--input', '--engine', '--step', '--seed', '--ancilla', ...FILE_OPTIONS]);
+
+/** Most nodes and seconds a proof may take from the command line (the server has its own cap). */
+const MAX_PROOF_NODES = 50_000_000;
+const MAX_PROOF_SECONDS = 3600;
+
+function proofLimits(args: Args): { maxNodes?: number; timeMs?: number } {
+	const out: { maxNodes?: number; timeMs?: number } = {};
+	const n = args.flags.get('--proof-limit')?.[0];
+	if (n !== undefined) {
+		if (!/^\d+$/.test(n) || Number(n) < 100 || Number(n) > MAX_PROOF_NODES) throw new UsageError(`--proof-limit: expected a number of decision-diagram nodes from 100 to ${MAX_PROOF_NODES}, got "${n}"`);
+		out.maxNodes = Number(n);
+	}
+	const t = args.flags.get('--proof-time')?.[0];
+	if (t !== undefined) {
+		if (!/^\d+(\.\d+)?$/.test(t) || Number(t) <= 0 || Number(t) > MAX_PROOF_SECONDS) throw new UsageError(`--proof-time: expected seconds from 0.001 to ${MAX_PROOF_SECONDS}, got "${t}"`);
+		out.timeMs = Math.round(Number(t) * 1000);
+	}
+	return out;
+}
 const parseArgs = (argv: string[]) => parseCliArgs(argv, VALUED);
 
 /** Read a circuit file by extension / header. */
@@ -98,16 +121,28 @@ function printCheck(r: CheckReport, path: string, io: Io): void {
 	const lines: string[] = [];
 	lines.push(`${path}: ${r.ok ? 'PASS' : 'FAIL'} (simulated, not a hardware run)`);
 	lines.push(`  specs: ${r.specs.join('; ')}`);
-	if (r.domain.conditions.length) lines.push(`  domain: ${r.domain.conditions.join(' and ')} (${r.domain.inputs} input${r.domain.inputs === 1 ? '' : 's'} inside it checked)`);
 	lines.push(`  inputs: ${r.inputs.registers.join(', ') || '(none)'} (${r.inputs.bits} bits), ${r.cases} checked${r.exhaustive ? (r.domain.conditions.length ? ' (all of the domain)' : ' (all)') : ''}, ${r.failed} failed`);
 	lines.push(`  worst-case success probability: ${r.worstSuccessProbability}`);
-	lines.push(`  method: ${r.method}; proof: ${r.proof.status}${r.proof.reason ? ` (${r.proof.reason})` : ''}`);
+	lines.push(`  ${r.proof.summary}`);
+	if (r.domain.conditions.length) lines.push(`  domain: ${r.domain.conditions.join(' and ')} (${r.domain.count} of ${r.domain.total} basis inputs)`);
+	lines.push(`  method: ${r.method}; proof: ${r.proof.status}${r.proof.prover ? ` by the ${r.proof.prover === 'fourier' ? 'Fourier-form' : 'general'} prover` : ''}${r.proof.reason && r.proof.status !== 'undecided' ? ` (${r.proof.reason})` : ''}; phases ${r.phases}`);
+	if (r.proof.counterexample) lines.push(`  step it: npm run orrery -- run ${path} --input ${fmt(r.proof.counterexample)}`);
+	for (const m of r.proof.bitMismatches.slice(0, 10)) lines.push(`  ${m.qubit} ends holding ${m.holds}; needs ${m.expected} (e.g. input ${fmt(m.input)}; lines ${m.lines.join(', ') || '–'})`);
+	for (const t of r.proof.phaseTerms.slice(0, 10)) lines.push(`  phase term ${t.turns} · ${t.term} on the whole state (lines ${t.lines.join(', ') || '–'})`);
 	for (const s of r.proof.sections) lines.push(`  section on ${s.register}: QFT gates ${s.qftGates.join('–')}, inverse ${s.iqftGates.join('–')}, layout ${s.layout}`);
 	for (const f of r.failures.slice(0, 10))
-		lines.push(`  input ${fmt(f.input)}: expected ${fmt(f.expected)}, got ${fmt(f.got)} (probability of the right answer ${f.probability.toPrecision(6)})`);
+		lines.push(
+			f.reason === 'phase'
+				? `  input ${fmt(f.input)}: right value, but global phase ${f.phase}, unlike the first input`
+				: `  input ${fmt(f.input)}: expected ${fmt(f.expected)}, got ${fmt(f.got)} (probability of the right answer ${f.probability.toPrecision(6)})`
+		);
 	if (r.failures.length > 10) lines.push(`  … ${r.failed - 10} more failing inputs`);
 	for (const w of r.wrongTerms.slice(0, 10))
-		lines.push(`  wrong term on ${w.target}: coefficient of ${w.term} is ${w.actualTurns}, expected ${w.expectedTurns} (${w.where}; lines ${w.lines.join(', ') || '–'})`);
+		lines.push(
+			w.where === 'phase'
+				? `  phase term ${w.differenceTurns} · ${w.term} on the whole state (lines ${w.lines.join(', ') || '–'})`
+				: `  wrong term on ${w.target}: coefficient of ${w.term} is ${w.actualTurns}, expected ${w.expectedTurns} (${w.where}; lines ${w.lines.join(', ') || '–'})`
+		);
 	for (const m of r.proof.registerMismatches.slice(0, 10)) lines.push(`  ${m.register ? `${m.qubit} ends holding ${m.holds}, expected ${m.expected}` : m.holds}`);
 	for (const s of r.suspects.slice(0, 5))
 		lines.push(`  suspect: line ${s.line ?? '?'}${s.definitionLines.length ? ` (via gate definition line ${s.definitionLines.join(', ')})` : ''} (gate ${s.gate}, ${s.kind} on ${s.qubit}): ${s.reason}`);
@@ -151,7 +186,7 @@ export function main(argv: string[], io: Io = nodeIo): number {
 				const c = lower(doc, rest[0]);
 				let r: ReturnType<typeof checkCircuit>;
 				try {
-					r = checkCircuit(c, specs, { inputs: inputChoice(args, c), definitionLines, assume });
+					r = checkCircuit(c, specs, { inputs: inputChoice(args, c), definitionLines, assume, ignorePhase: args.flags.has('--ignore-phase'), proofLimits: proofLimits(args) });
 				} catch (e) {
 					if (own && e instanceof SpecError) throw new UsageError(`${rest[0]}: ${e.message}`);
 					if (e instanceof SpecError && !specs.includes(e.spec)) throw new UsageError(`--assume: ${e.message}`);

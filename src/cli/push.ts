@@ -162,7 +162,7 @@ export async function runPush(argv: string[], io: PushIo = nodeIo, env: Record<s
 		const seed = Number(flags.get('--seed')?.[0] ?? 1);
 		const choice: InputChoice =
 			given === 'all' ? { mode: 'all' } : given && /^random:\d+$/.test(given) ? { mode: 'random', count: Number(given.slice(7)), seed } : { mode: 'auto', sample: 1000, seed };
-		const report = checkCircuit(c, specs, { inputs: choice });
+		const report = checkCircuit(c, specs, { inputs: choice, assume: doc.assume });
 
 		const inputText = flags.get('--input')?.[0];
 		const traceValues: Record<string, string> = inputText

@@ -348,6 +348,9 @@ export function runCheck(req: Extract<WorkerRequest, { type: 'check' }>, progres
 	const report = checkCircuit(c, specs, {
 		inputs: choice,
 		assume: req.doc.assume,
+		ignorePhase: req.ignorePhase === true,
+		// the browser worker keeps the proof small; the server and the command line may allow more
+		proofLimits: { maxNodes: 1_000_000, timeMs: 10_000 },
 		onProgress: (done, total) => {
 			const now = Date.now();
 			if (now - last > 60 || done === total) {

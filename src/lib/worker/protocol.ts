@@ -27,7 +27,7 @@ export type WorkerRequest =
 	| { id: number; type: 'ledger'; qubit: number; step: number }
 	| { id: number; type: 'seek'; from: number; kind: SeekKind; breakpoints?: BreakpointSpec[] }
 	| { id: number; type: 'gates'; from: number; to: number }
-	| { id: number; type: 'check'; doc: CircuitDocument; inputs: CheckInputChoice };
+	| { id: number; type: 'check'; doc: CircuitDocument; inputs: CheckInputChoice; ignorePhase?: boolean };
 
 /** Which inputs a check covers: every basis input, a seeded random sample, or the automatic choice. */
 export type CheckInputChoice = { mode: 'auto' } | { mode: 'all' } | { mode: 'random'; count: number; seed: number };
