@@ -76,7 +76,7 @@ function proofLimits(args: Args): { maxNodes?: number; timeMs?: number } {
 	}
 	return out;
 }
-const parseArgs = (argv: string[]) => parseCliArgs(argv, VALUED);
+const parseArgs = (argv: string[]) => parseCliArgs(argv, VALUED, new Set(['--ignore-phase']));
 
 /** Read a circuit file by extension / header. */
 let readOptions: ReadOptions = {};
