@@ -50,7 +50,7 @@ describe('orrery check with the document’s own specs and domain', () => {
 		const r = run(['check', 'm.json'], { 'm.json': modDoc('9') });
 		expect(r.code).toBe(0);
 		expect(r.out).toContain('specs: b = b + 9 mod 13');
-		expect(r.out).toContain('domain: b < 13 (13 inputs inside it checked)');
+		expect(r.out).toContain('domain: b < 13 (13 of 32 basis inputs)');
 		const j = JSON.parse(run(['check', 'm.json', '--json'], { 'm.json': modDoc('9') }).out);
 		expect(j.domain).toMatchObject({ conditions: ['b < 13'], inputs: 13, count: '13', total: '32' });
 	});
