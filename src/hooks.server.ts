@@ -85,9 +85,9 @@ export const handle: Handle = async ({ event, resolve }) => {
 };
 
 /**
- * Headers on every answer (issue 10). Pages get their content security policy from kit.csp
- * (svelte.config.js); answers without one (API JSON, images, files) get a deny-all policy, so a
- * stored file opened directly can run nothing. Reset and invitation links carry their token in
+ * Headers on every answer (issue 10). Pages get a policy that forbids framing, plugins and a
+ * foreign base (a full kit.csp for pages is not in yet); answers that are not pages (API JSON,
+ * images, files) get a deny-all policy, so a stored file opened directly can run nothing. Reset and invitation links carry their token in
  * the path: the referrer policy keeps it from reaching other sites.
  */
 function withSecurityHeaders(response: Response): Response {
@@ -95,7 +95,11 @@ function withSecurityHeaders(response: Response): Response {
 		h.set('x-content-type-options', 'nosniff');
 		h.set('referrer-policy', 'same-origin');
 		h.set('x-frame-options', 'DENY');
-		if (!h.has('content-security-policy')) h.set('content-security-policy', "default-src 'none'; frame-ancestors 'none'; base-uri 'none'; form-action 'none'");
+		if (h.has('content-security-policy')) return;
+		// A page runs the app's own scripts: until kit.csp gives pages a full policy they get one that
+		// still forbids framing and plugins. Anything else (JSON, images, files) may run nothing.
+		const html = (h.get('content-type') ?? '').startsWith('text/html');
+		h.set('content-security-policy', html ? "frame-ancestors 'none'; base-uri 'self'; object-src 'none'" : "default-src 'none'; frame-ancestors 'none'; base-uri 'none'; form-action 'none'");
 	};
 	try {
 		set(response.headers);

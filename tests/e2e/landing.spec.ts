@@ -42,3 +42,14 @@ test('unknown pages get our error page', async ({ page }) => {
 	expect(res?.status()).toBe(404);
 	await expect(page.getByText('Nothing lives at this address')).toBeVisible();
 });
+
+test('pages may run their own scripts but not be framed; API answers run nothing', async ({ page, request }) => {
+	const res = await page.goto('/signin');
+	const csp = res!.headers()['content-security-policy'];
+	expect(csp).toContain("frame-ancestors 'none'");
+	expect(csp).not.toContain("default-src 'none'");
+	// Hydrated: the sign-in form's client-side code ran (a deny-all policy on pages once stopped it).
+	await page.waitForFunction(() => document.documentElement.dataset.hydrated === 'true', undefined, { timeout: 20_000 });
+	const api = await request.get('/api/health');
+	expect(api.headers()['content-security-policy']).toContain("default-src 'none'");
+});
