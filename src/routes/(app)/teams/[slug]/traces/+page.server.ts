@@ -1,16 +1,17 @@
 import { db } from '$lib/server/db';
 import { requireTeamRole } from '$lib/server/guard';
+import { traceListPage } from '$lib/server/lists';
 import { listCircuits } from '$lib/server/repositories/circuits';
 import { listMembers } from '$lib/server/repositories/teams';
-import { can } from '$lib/permissions';
 import type { PageServerLoad } from './$types';
 
-// The filter choices; the rows themselves come from the JSON API in +page.ts.
+// The table (the same function as GET /api/teams/{slug}/traces, so the same query string) and the filter choices.
 export const load: PageServerLoad = async ({ locals, params, url }) => {
 	const access = await requireTeamRole(locals, params.slug, 'trace.replay', { redirectFrom: url });
+	const [list, circuits, members] = await Promise.all([traceListPage(access.team, url), listCircuits(db, access.team.id), listMembers(db, access.team.id)]);
 	return {
-		circuits: (await listCircuits(db, access.team.id)).map((c) => ({ id: c.id, title: c.title })),
-		people: (await listMembers(db, access.team.id)).map((m) => ({ id: m.user_id, name: m.name })),
-		canDelete: can(access.role, 'trace.delete')
+		list,
+		circuits: circuits.map((c) => ({ id: c.id, title: c.title })),
+		people: members.map((m) => ({ id: m.user_id, name: m.name }))
 	};
 };

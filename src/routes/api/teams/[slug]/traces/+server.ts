@@ -1,26 +1,16 @@
-import { error, json } from '@sveltejs/kit';
+import { json } from '@sveltejs/kit';
 import { apiRoute, readJson } from '$lib/server/api';
-import { db } from '$lib/server/db';
 import { requireTeamRole } from '$lib/server/guard';
 import { saveTrace } from '$lib/server/debugging';
-import { listTraces, traceView } from '$lib/server/repositories/traces';
-import { createTraceSchema, traceQuerySchema } from '$lib/schemas/debugging';
+import { traceListPage } from '$lib/server/lists';
+import { createTraceSchema } from '$lib/schemas/debugging';
 import { routes } from '$lib/routes';
 import type { RequestHandler } from './$types';
 
-/** GET ?circuit=&author=&diverged=yes|no&from=YYYY-MM-DD&to=YYYY-MM-DD&sort=&page=&perPage= */
+/** GET ?circuit=&author=&diverged=yes|no&from=YYYY-MM-DD&to=YYYY-MM-DD&sort=&page=&perPage= (the traces page loads the same). */
 export const GET: RequestHandler = apiRoute(async ({ locals, params, url }) => {
 	const { team } = await requireTeamRole(locals, params.slug, 'trace.replay');
-	const q = traceQuerySchema.safeParse(Object.fromEntries(url.searchParams));
-	if (!q.success) error(400, { message: q.error.issues.map((i) => `${i.path.join('.')}: ${i.message}`).join('; '), code: 'bad_request' });
-	const { rows, total } = await listTraces(db, team.id, q.data);
-	return json({
-		traces: rows.map((r) => ({ ...traceView(r, false), links: { replay: routes.replay(team.slug, r.id) } })),
-		page: q.data.page,
-		perPage: q.data.perPage,
-		total,
-		pages: Math.max(1, Math.ceil(total / q.data.perPage))
-	});
+	return json(await traceListPage(team, url));
 });
 
 export const POST: RequestHandler = apiRoute(async ({ locals, params, request }) => {
