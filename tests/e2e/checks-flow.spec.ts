@@ -26,7 +26,7 @@ test('save a version, watch the server check run, and see its verdict in the cir
 	await hydrated(page);
 	const title = `Queue flow adder ${Date.now()}`;
 	await page.getByLabel('Title').fill(title);
-	await page.getByLabel('Bits').fill('10');
+	await page.getByLabel('Bits', { exact: true }).fill('10');
 	await page.getByRole('radio', { name: /Fourier adder/ }).check();
 	await page.getByRole('button', { name: 'Create and open' }).click();
 	await expect(page).toHaveURL(/\/circuits\/[a-z2-7]{24}/);

@@ -99,9 +99,17 @@ test('push names its target: --new makes a circuit, --circuit with a stale --bas
 	expect(forced.code).toBe(0);
 	expect(forced.json!.circuit).toMatchObject({ version: 3, addedVersion: true });
 
-	// A passing push records a verdict for that version on the circuits page.
-	const list = await engineer.get(`/teams/${SLUG}/circuits`, { headers: { accept: 'text/html' } });
-	expect(await list.text()).toMatch(/v3: [a-z ]+ passed, \d+ inputs/);
+	// A passing push sends no verdict: the upload queued the server's own check of v3, which passes.
+	await expect
+		.poll(
+			async () => {
+				const res = await engineer.get(`/api/teams/${SLUG}/circuits?perPage=100`);
+				const row = ((await res.json()).circuits as { id: string; latestVersion: number; check: { by: string; version?: number; status: string } }[]).find((c) => c.id === circuit.id);
+				return row ? `v${row.latestVersion} check of v${row.check.version} by ${row.check.by}: ${row.check.status}` : 'missing';
+			},
+			{ timeout: 180_000, intervals: [1000] }
+		)
+		.toBe('v3 check of v3 by server: pass');
 });
 
 test('a failing push: the trace carries the divergence the server recomputed; the report opens there with a server-drawn board and the ledger', async () => {
