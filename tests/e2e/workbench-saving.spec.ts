@@ -108,19 +108,24 @@ test('leaving the workbench with unsaved edits asks first, inside the app and wh
 	await freshAdder(page, `Leave warning ${Date.now()}`);
 	const here = page.url();
 	await retitle(page, 'not saved yet');
-	// A link inside the app: the question comes, and dismissing it stays.
-	const asked = page.waitForEvent('dialog');
+	// A link inside the app: the question comes, and dismissing it stays. The handler is set before
+	// the click, which itself waits while a confirm is open.
+	let asked = '';
+	page.once('dialog', (d) => {
+		asked = d.message();
+		void d.dismiss();
+	});
 	await page.getByRole('navigation', { name: 'Breadcrumb' }).getByRole('link', { name: 'Circuits' }).click();
-	const dialog = await asked;
-	expect(dialog.message()).toMatch(/unsaved/i);
-	await dialog.dismiss();
+	await expect.poll(() => asked).toMatch(/unsaved/i);
 	await page.waitForTimeout(300);
 	expect(page.url()).toBe(here);
 	await expect(page.getByLabel('Circuit title')).toHaveValue('not saved yet');
 	// Closing the tab: the browser's own beforeunload question.
-	const unload = page.waitForEvent('dialog');
+	let kind = '';
+	page.once('dialog', (d) => {
+		kind = d.type();
+		void d.accept();
+	});
 	await page.close({ runBeforeUnload: true });
-	const d = await unload;
-	expect(d.type()).toBe('beforeunload');
-	await d.accept();
+	await expect.poll(() => kind).toBe('beforeunload');
 });
