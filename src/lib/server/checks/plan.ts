@@ -50,6 +50,20 @@ export interface MergedSweep {
  * rows come in (a duplicate of the same shard is ignored), and ranges no shard covered are listed,
  * so a caller can refuse to call an incomplete sweep exhaustive.
  */
+/** The counts of one part of a sweep (a chunk or a shard), as added into a running total. */
+export type SweepPart = Pick<ShardOutcome, 'cases' | 'failed' | 'worstProbability' | 'failures' | 'engines'> & { phaseReferences?: string[] };
+
+/** Add one part of a sweep into a total: counts, worst probability, first `keep` failures, engines, phase references. */
+export function addSweepPart(out: SweepPart & { phaseReferences: string[] }, r: SweepPart, keep = KEEP_FAILURES): void {
+	out.cases += r.cases;
+	out.failed += r.failed;
+	if (r.worstProbability < out.worstProbability) out.worstProbability = r.worstProbability;
+	for (const f of r.failures) if (out.failures.length < keep) out.failures.push(f);
+	out.engines.ledger += r.engines.ledger;
+	out.engines.amplitudes += r.engines.amplitudes;
+	for (const p of r.phaseReferences ?? []) if (!out.phaseReferences.includes(p)) out.phaseReferences.push(p);
+}
+
 export function mergeShards(rows: ShardOutcome[], total: number, keep = KEEP_FAILURES): MergedSweep {
 	const byShard = new Map<number, ShardOutcome>();
 	for (const r of rows) if (!byShard.has(r.shard)) byShard.set(r.shard, r);
@@ -59,13 +73,7 @@ export function mergeShards(rows: ShardOutcome[], total: number, keep = KEEP_FAI
 	for (const r of ordered) {
 		if (r.start > covered) out.missing.push({ start: covered, end: r.start });
 		covered = Math.max(covered, r.end);
-		out.cases += r.cases;
-		out.failed += r.failed;
-		if (r.worstProbability < out.worstProbability) out.worstProbability = r.worstProbability;
-		for (const f of r.failures) if (out.failures.length < keep) out.failures.push(f);
-		out.engines.ledger += r.engines.ledger;
-		out.engines.amplitudes += r.engines.amplitudes;
-		for (const p of r.phaseReferences ?? []) if (!out.phaseReferences.includes(p)) out.phaseReferences.push(p);
+		addSweepPart(out, r, keep);
 	}
 	if (covered < total) out.missing.push({ start: covered, end: total });
 	return out;

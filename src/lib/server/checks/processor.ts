@@ -13,7 +13,7 @@ import { parseCircuitDocument } from '../../quantum/schema';
 import { checkCircuit, type CheckOptions, type CheckReport } from '../../quantum/check/index';
 import type { LoweredCircuit } from '../../quantum/circuit';
 import { CHECK_QUEUE, KEY_TTL_SECONDS, redisKeys } from './redis';
-import { engineName, KEEP_FAILURES, mergeShards, planShards, type ShardOutcome } from './plan';
+import { addSweepPart, engineName, mergeShards, planShards, type ShardOutcome } from './plan';
 import { finishCheck, findCheck, listShards, recordPlan, recordShard, startCheck, type CheckResult, type CheckRow, type Verdict } from './store';
 
 export type CheckJobData = { checkId: string } | { checkId: string; shard: number; start: number; end: number };
@@ -94,13 +94,7 @@ async function sweepRange(deps: ProcessorDeps, row: CheckRow, c: LoweredCircuit,
 	for (let a = start; a < end; a += CHUNK_INPUTS) {
 		const b = Math.min(end, a + CHUNK_INPUTS);
 		const r = checkCircuit(c, specs, coreOptions({ mode: 'range', start: a, end: b }, false, assume));
-		out.cases += r.cases;
-		out.failed += r.failed;
-		if (r.worstSuccessProbability < out.worstProbability) out.worstProbability = r.worstSuccessProbability;
-		for (const f of r.failures) if (out.failures.length < KEEP_FAILURES) out.failures.push(f);
-		out.engines.ledger += r.engines.ledger;
-		out.engines.amplitudes += r.engines.amplitudes;
-		if (r.phaseReference && !out.phaseReferences.includes(r.phaseReference)) out.phaseReferences.push(r.phaseReference);
+		addSweepPart(out, { ...r, worstProbability: r.worstSuccessProbability, phaseReferences: r.phaseReference ? [r.phaseReference] : [] });
 		await deps.redis.multi().hset(progressKey, String(shard), b - start).expire(progressKey, KEY_TTL_SECONDS).exec();
 		if (await cancelled(deps, row.id)) return null;
 		if (Date.now() > deadline && b < end) throw new CheckStop(`stopped after ${deps.settings.maxSeconds} s, the server's limit for one check; raise ORRERY_CHECK_MAX_SECONDS or narrow the domain with assume`);
