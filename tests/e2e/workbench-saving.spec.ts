@@ -1,5 +1,5 @@
 import { expect, test, type Page } from '@playwright/test';
-import { demo, signInInBrowser } from './support/demo';
+import { demo, hydrated, signInInBrowser, waitForRun } from './support/demo';
 
 // Issue 17: what a save means. After "Save v2" everything made on the page belongs to v2; a check
 // of unsaved edits never becomes a saved version's verdict; a spec-only edit can be saved; leaving
@@ -7,13 +7,6 @@ import { demo, signInInBrowser } from './support/demo';
 
 const SLUG = 'halvorsen-lab';
 
-async function hydrated(page: Page) {
-	await page.waitForFunction(() => document.documentElement.dataset.hydrated === 'true');
-}
-async function waitForRun(page: Page) {
-	await expect(page.getByTestId('run-summary')).toBeVisible({ timeout: 30_000 });
-	await page.waitForTimeout(400); // the re-run after an edit is debounced by 200 ms
-}
 /** A fresh 3-bit Fourier adder (template) opened in the workbench; returns its id. */
 async function freshAdder(page: Page, title: string): Promise<string> {
 	await signInInBrowser(page, demo.engineer.email, demo.engineer.password);

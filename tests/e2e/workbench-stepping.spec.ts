@@ -1,5 +1,5 @@
 import { expect, test, type Page } from '@playwright/test';
-import { demo, signInInBrowser } from './support/demo';
+import { demo, hydrated, signInInBrowser, waitForRun } from './support/demo';
 import { FAULT_INPUTS, faultyAdder } from './support/debugging';
 
 // Issue 17: "to breakpoint" (button and key) in the workbench and in the reviewer's replay. The
@@ -7,13 +7,6 @@ import { FAULT_INPUTS, faultyAdder } from './support/debugging';
 
 const SLUG = 'halvorsen-lab';
 
-async function hydrated(page: Page) {
-	await page.waitForFunction(() => document.documentElement.dataset.hydrated === 'true');
-}
-async function waitForRun(page: Page) {
-	await expect(page.getByTestId('run-summary')).toBeVisible({ timeout: 30_000 });
-	await page.waitForTimeout(400); // the re-run after an edit is debounced by 200 ms
-}
 async function setInput(page: Page, register: string, value: string) {
 	const field = page.locator(`#in-${register}`);
 	await field.fill(value);

@@ -15,3 +15,14 @@ export async function signInInBrowser(page: Page, email: string, password: strin
 	await page.getByRole('button', { name: 'Sign in' }).click();
 	await expect(page).not.toHaveURL(/\/signin/);
 }
+
+/** Wait until the page's client code has taken over (the root layout sets data-hydrated). */
+export async function hydrated(page: Page): Promise<void> {
+	await page.waitForFunction(() => document.documentElement.dataset.hydrated === 'true');
+}
+
+/** Wait for the workbench's run summary, then for the debounced re-run after an edit (200 ms). */
+export async function waitForRun(page: Page): Promise<void> {
+	await expect(page.getByTestId('run-summary')).toBeVisible({ timeout: 30_000 });
+	await page.waitForTimeout(400);
+}
