@@ -117,7 +117,13 @@ function inputChoice(args: Args, c: LoweredCircuit): InputChoice | undefined {
 	return { mode: 'given', values };
 }
 
-function printCheck(r: CheckReport, path: string, io: Io): void {
+/** The file-reading options as given (register maps, decimals, params), so a suggested command reads the file the same way. */
+function readingFlags(args: Args): string {
+	const q = (v: string) => (/^[\w.:=,+-]+$/.test(v) ? v : `'${v.replace(/'/g, `'\\''`)}'`);
+	return FILE_OPTIONS.flatMap((f) => (args.flags.get(f) ?? []).map((v) => ` ${f} ${q(v)}`)).join('');
+}
+
+function printCheck(r: CheckReport, path: string, io: Io, readFlags = ''): void {
 	const lines: string[] = [];
 	lines.push(`${path}: ${r.ok ? 'PASS' : 'FAIL'} (simulated, not a hardware run)`);
 	lines.push(`  specs: ${r.specs.join('; ')}`);
@@ -126,7 +132,7 @@ function printCheck(r: CheckReport, path: string, io: Io): void {
 	lines.push(`  ${r.proof.summary}`);
 	if (r.domain.conditions.length) lines.push(`  domain: ${r.domain.conditions.join(' and ')} (${r.domain.count} of ${r.domain.total} basis inputs)`);
 	lines.push(`  method: ${r.method}; proof: ${r.proof.status}${r.proof.prover ? ` by the ${r.proof.prover === 'fourier' ? 'Fourier-form' : 'general'} prover` : ''}${r.proof.reason && r.proof.status !== 'undecided' ? ` (${r.proof.reason})` : ''}; phases ${r.phases}`);
-	if (r.proof.counterexample) lines.push(`  step it: npm run orrery -- run ${path} --input ${fmt(r.proof.counterexample)}`);
+	if (r.proof.counterexample) lines.push(`  step it: npm run orrery -- run ${path}${readFlags} --input ${fmt(r.proof.counterexample)}`);
 	for (const m of r.proof.bitMismatches.slice(0, 10)) lines.push(`  ${m.qubit} ends holding ${m.holds}; needs ${m.expected} (e.g. input ${fmt(m.input)}; lines ${m.lines.join(', ') || '–'})`);
 	for (const t of r.proof.phaseTerms.slice(0, 10)) lines.push(`  phase term ${t.turns} · ${t.term} on the whole state (lines ${t.lines.join(', ') || '–'})`);
 	for (const s of r.proof.sections) lines.push(`  section on ${s.register}: QFT gates ${s.qftGates.join('–')}, inverse ${s.iqftGates.join('–')}, layout ${s.layout}`);
@@ -195,7 +201,7 @@ export function main(argv: string[], io: Io = nodeIo): number {
 				if (!json) for (const w of warnings) io.err(w);
 				if (json) io.out(JSON.stringify({ ...r, importNotes: notes }, null, 2));
 				else {
-					printCheck(r, rest[0], io);
+					printCheck(r, rest[0], io, readingFlags(args));
 					for (const n of notes) io.out(`  read: ${n}`);
 				}
 				return r.ok ? 0 : 1;
