@@ -23,20 +23,26 @@ describe('modular templates check over their own specs and domains', () => {
 	it('period finding N = 21, a = 2: every exponent, y = 1', () => {
 		const d = periodFinding();
 		const c = lowerCircuit(d);
-		// Sweep only: every input of the domain (512). The prover is left out here: it cannot take an
-		// exponent register in a spec yet and spends its whole time budget finding that out.
-		const r = checkCircuit(c, d.specs!, { assume: d.assume, proof: false });
+		// Every input of the domain (512) is swept, and the prover builds the spec's 2^e mod 21 bit by
+		// bit of e: both must say right.
+		const r = checkCircuit(c, d.specs!, { assume: d.assume });
 		expect(r.ok).toBe(true);
 		expect(r.cases).toBe(512);
 		expect(r.exhaustive).toBe(true);
+		expect(r.proof.status).toBe('proved');
 		const run = new Run(c, { values: { e: 6, y: 1 } });
 		expect(run.frameAt(c.gateCount).registerValues.y).toBe(powMod(2n, 6n, 21n));
 	}, 180_000);
 	it('the copy with one constant not reduced mod 21 is refuted; its first divergence is the comparison ancilla', () => {
 		const d = periodFindingUnreduced();
 		const c = lowerCircuit(d);
-		const r = checkCircuit(c, d.specs!, { assume: d.assume, proof: false });
+		const r = checkCircuit(c, d.specs!, { assume: d.assume });
 		expect(r.ok).toBe(false);
+		// the prover refutes it on its own, with an input the exhaustive sweep also finds failing
+		expect(r.proof.status).toBe('refuted');
+		const cx = r.proof.counterexample;
+		expect(cx).toBeDefined();
+		expect(r.failures.some((f) => f.input.e === cx!.e)).toBe(true);
 		const bad = r.failures[0];
 		expect(BigInt(bad.input.e) & 4n).toBe(4n); // exponent bit 2 is set on every failing input
 		const run = new Run(c, { values: { e: Number(bad.input.e), y: 1 } });

@@ -77,6 +77,17 @@ describe('word arithmetic against mathjs (exhaustive over 4-bit a, b)', () => {
 		'a xor b',
 		'a xor (b > 3)',
 		'a ^ 2',
+		// powers with a register exponent: exact, and reduced inside an enclosing mod (ring context)
+		'2 ^ a',
+		'3 ^ a - b',
+		'2 ^ a mod 21',
+		'(7 ^ a) mod 15',
+		'(3 ^ a * b) mod 7',
+		'(2 ^ a + b - 5) mod 11',
+		'(-3) ^ a mod 10',
+		'a == 3 ? 7 ^ b mod 15 : b',
+		'((2 ^ a > b) * 3) mod 5',
+		'(2 ^ a mod 7) < 3',
 		'floor(a / 3)',
 		'min(a, b)',
 		'max(a, b - 4)',
@@ -118,7 +129,7 @@ describe('spec bits and conditions', () => {
 		expect(evaluateSpec(s, new Map([['b', 12n], ['c', 2n], ['a', 0n]]))).toBe(12n);
 	});
 	it('spec bits agree with evaluateSpec on every input: cout-style shifts and trailing mods', () => {
-		for (const text of ['b = (a + b) >> 4', 'b = a + b mod 16', 'b = c == 3 ? (b + 5) mod 13 : b', 'b = (b + 8*c) mod 11']) {
+		for (const text of ['b = (a + b) >> 4', 'b = a + b mod 16', 'b = c == 3 ? (b + 5) mod 13 : b', 'b = (b + 8*c) mod 11', 'b = 2^a * b mod 13', 'b = b + 5^(a + c) mod 9']) {
 			const s = parseSpec(text, regs);
 			const d = new Bdd(10);
 			const ops = new WordOps(d);
@@ -133,6 +144,23 @@ describe('spec bits and conditions', () => {
 				bits.forEach((f, i) => d.evaluate(f, asg) && (got |= 1n << BigInt(i)));
 				expect(got, `${text} at ${m}`).toBe(want);
 			}
+		}
+	});
+	it('a register exponent outside a modulus is refused with the reason when the exact power is too wide', () => {
+		const big = [{ name: 'e', size: 13, offset: 0 }, { name: 'y', size: 4, offset: 13 }];
+		const d = new Bdd(17);
+		const ops = new WordOps(d);
+		const env = new Map(big.map((r) => [r.name, ops.unsigned(Array.from({ length: r.size }, (_, i) => d.variable(r.offset + i)))]));
+		expect(() => specBits(parseSpec('y = 2^e * y + 1', big), env, ops)).toThrow(/has about 8191 bits.*mod M/);
+		expect(() => specBits(parseSpec('y = y^e mod 5', big), env, ops)).toThrow(/constant base/);
+		// the same power under a constant modulus is built mod M: 2^e mod 13 for every 13-bit e
+		const bits = specBits(parseSpec('y = 2^e mod 13', big), env, ops);
+		for (const e of [0n, 1n, 12n, 100n, 4095n, 8191n]) {
+			const asg = new Uint8Array(17);
+			for (let i = 0; i < 13; i++) asg[i] = Number((e >> BigInt(i)) & 1n);
+			let got = 0n;
+			bits.forEach((f, i) => d.evaluate(f, asg) && (got |= 1n << BigInt(i)));
+			expect(got, `2^${e} mod 13`).toBe(2n ** e % 13n); // plain BigInt power as the reference
 		}
 	});
 	it('conditions parse and name a bad column', () => {
