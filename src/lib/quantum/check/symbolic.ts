@@ -329,11 +329,14 @@ export function symbolicProve(c: LoweredCircuit, goal: SymbolicGoal): SymbolicRe
 						bit[t] = bdd.xor(bit[t], ctl);
 					} else {
 						// X^k on (|0⟩ + e^{iφ}|1⟩): global += k·φ, φ → φ − 2kφ
+						// The terms are read before any is changed: adding to p merges into terms by
+						// their BDD key, and f∧ctl may be the key of a term not yet read.
 						const p = phase[t]!;
-						for (const [f, term] of [...p]) {
+						const before = [...p].map(([f, term]) => ({ f, angle: term.angle, gates: [...term.gates, g] }));
+						for (const { f, angle, gates } of before) {
 							const fk = bdd.and(f, ctl);
-							addTerm(global, fk, term.angle, [...term.gates, g]);
-							addTerm(p, fk, scaleAngle(term.angle, -2n), [...term.gates, g]);
+							addTerm(global, fk, angle, gates);
+							addTerm(p, fk, scaleAngle(angle, -2n), gates);
 						}
 					}
 					wrote(t, g);
