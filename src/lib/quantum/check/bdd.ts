@@ -210,6 +210,35 @@ export class Bdd {
 		return r;
 	}
 
+	/**
+	 * f simplified on a care set (Coudert and Madre 1990, "restrict"): a function that equals f
+	 * wherever `care` holds and is usually smaller, since it may take any value elsewhere. Used to
+	 * describe a wrong bit over the domain only (a register the domain fixes drops out).
+	 */
+	restrict(f: number, care: number, memo = new Map<string, number>()): number {
+		if (care === FALSE) return FALSE;
+		if (care === TRUE || f <= 1) return f;
+		if (f === care) return TRUE;
+		const key = `${f},${care}`;
+		const hit = memo.get(key);
+		if (hit !== undefined) return hit;
+		const lf = this.level[f];
+		const lc = this.level[care];
+		let r: number;
+		if (lc < lf) r = this.restrict(f, this.or(this.lo[care], this.hi[care]), memo);
+		else {
+			const f0 = this.lo[f];
+			const f1 = this.hi[f];
+			const c0 = lc === lf ? this.lo[care] : care;
+			const c1 = lc === lf ? this.hi[care] : care;
+			if (c0 === FALSE) r = this.restrict(f1, c1, memo);
+			else if (c1 === FALSE) r = this.restrict(f0, c0, memo);
+			else r = this.mk(lf, this.restrict(f0, c0, memo), this.restrict(f1, c1, memo));
+		}
+		memo.set(key, r);
+		return r;
+	}
+
 	/** Value of f under an assignment (bit per level). */
 	evaluate(f: number, assignment: ArrayLike<number>): boolean {
 		while (f > 1) f = assignment[this.level[f]] ? this.hi[f] : this.lo[f];

@@ -400,6 +400,16 @@ export function symbolicProve(c: LoweredCircuit, goal: SymbolicGoal): SymbolicRe
 				result.mismatches.push({ register: regOf[q].name, qubit: qname(q), holds: 'a superposition (|0⟩ + e^{iφ}|1⟩)/√2: no inverse transform brought it back', expected: 'a basis state', input: values(a), gates: writers[q].slice(), lines: linesOf(writers[q]) });
 				if (result.counterexamples.length < 3) result.counterexamples.push(values(a));
 			}
+		// A wrong bit is described on the domain only (what it holds elsewhere does not matter);
+		// if simplifying hits a limit, the bit as held is described instead.
+		const onDomain = (f: number): number => {
+			try {
+				return bdd.restrict(f, dom);
+			} catch (e) {
+				if (e instanceof BddLimit) return f;
+				throw e;
+			}
+		};
 		const specOf = new Map(goal.specs.map((sp) => [sp.out, sp]));
 		for (const r of c.registers) {
 			const sp = specOf.get(r.name);
@@ -414,8 +424,8 @@ export function symbolicProve(c: LoweredCircuit, goal: SymbolicGoal): SymbolicRe
 					result.mismatches.push({
 						register: r.name,
 						qubit: qname(q),
-						holds: describe(bdd, bit[q], levelName),
-						expected: sp ? `bit ${i} of ${sp.text.slice(sp.text.indexOf('=') + 1).trim()}: ${describe(bdd, want[i], levelName)}` : order.has(q) ? `${qname(q)} (unchanged)` : '0 (an ancilla or work qubit must come back clean)',
+						holds: describe(bdd, onDomain(bit[q]), levelName),
+						expected: sp ? `bit ${i} of ${sp.text.slice(sp.text.indexOf('=') + 1).trim()}: ${describe(bdd, onDomain(want[i]), levelName)}` : order.has(q) ? `${qname(q)} (unchanged)` : '0 (an ancilla or work qubit must come back clean)',
 						input: values(a),
 						gates: writers[q].slice(),
 						lines: linesOf(writers[q])
