@@ -16,7 +16,7 @@ say "database on 127.0.0.1:$ORRERY_DB_PORT, Redis on 127.0.0.1:$ORRERY_REDIS_POR
 node --import tsx scripts/migrate.ts latest
 node --import tsx scripts/migrate.ts seed
 
-if [ ! -f build/handler.js ] || [ -n "$(find src static package-lock.json svelte.config.js vite.config.ts tailwind.config.ts -newer build/handler.js -print -quit 2>/dev/null)" ]; then
+if [ ! -f build/handler.js ] || [ ! -f build/heavy-worker.js ] || [ -n "$(find src static package-lock.json svelte.config.js vite.config.ts tailwind.config.ts -newer build/handler.js -print -quit 2>/dev/null)" ]; then
 	say "building the app"
 	npx vite build >/tmp/orrery-build.log 2>&1 || { tail -n 30 /tmp/orrery-build.log >&2; die "the build failed (log above)"; }
 fi

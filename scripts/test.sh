@@ -4,13 +4,17 @@
 # Playwright in Debian's Chromium. One closing line sums every runner.
 #
 # With arguments, only those run (for working on one part): paths ending in .spec.ts go to
-# Playwright (after a build), others to vitest; the type check and lint are skipped.
+# Playwright (after a build), others to vitest (a *.app.test.ts file gets a build first too: it
+# starts the built app); the type check and lint are skipped.
 #   bash scripts/test.sh tests/integration/accounts.test.ts tests/e2e/landing.spec.ts
 set -uo pipefail
-UNIT_ONLY=(); E2E_ONLY=()
+UNIT_ONLY=(); E2E_ONLY=(); NEEDS_BUILD=0
 for a in "$@"; do
-	if [[ "$a" == *.spec.ts ]]; then E2E_ONLY+=("$a"); else UNIT_ONLY+=("$a"); fi
+	if [[ "$a" == *.spec.ts ]]; then E2E_ONLY+=("$a"); NEEDS_BUILD=1; else UNIT_ONLY+=("$a"); fi
+	# *.app.test.ts: an integration test that starts the built app (node build) itself.
+	[[ "$a" == *.app.test.ts ]] && NEEDS_BUILD=1
 done
+[ $# -eq 0 ] && NEEDS_BUILD=1
 SUBSET=$#
 source "$(dirname "$0")/lib.sh"
 
@@ -56,12 +60,13 @@ step() { # step NAME command...
 
 step migrate node --import tsx scripts/migrate.ts latest
 npx svelte-kit sync >/dev/null 2>&1
+# Built before vitest: the *.app.test.ts integration tests and Playwright both run the built app.
+[ "$NEEDS_BUILD" -eq 1 ] && step build npx vite build --logLevel warn
 if [ "$SUBSET" -eq 0 ] || [ ${#UNIT_ONLY[@]} -gt 0 ]; then
 	say "── vitest"
 	npx vitest run --reporter=default --reporter=json --outputFile.json="$T/vitest.json" ${UNIT_ONLY[@]+"${UNIT_ONLY[@]}"}
 fi
 [ "$SUBSET" -eq 0 ] && step check npm run -s check
-if [ "$SUBSET" -eq 0 ] || [ ${#E2E_ONLY[@]} -gt 0 ]; then step build npx vite build --logLevel warn; fi
 say "── playwright"
 if grep -q "build ok" "$STEPS" && { [ "$SUBSET" -eq 0 ] || [ ${#E2E_ONLY[@]} -gt 0 ]; }; then
 	node --import tsx scripts/migrate.ts seed >/dev/null

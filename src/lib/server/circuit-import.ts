@@ -1,21 +1,15 @@
 import { parseCircuitDocument } from '$lib/quantum/schema';
 import { importQasm } from '$lib/quantum/qasm/import';
 import type { CircuitDocument } from '$lib/quantum/circuit';
-import { MAX_CIRCUIT_UPLOAD } from '$lib/schemas/circuits';
 
 /** Most bytes an imported circuit may take once stored (as its JSON text). */
 export const MAX_STORED_DOCUMENT = 4 * 1024 * 1024;
 
 export type ImportResult = { ok: true; document: CircuitDocument; warnings: string[] } | { ok: false; errors: string[] };
 
-/** Read an uploaded circuit: OpenQASM 2.0 / 3.0 or an Orrery JSON document. */
-export async function importCircuitFile(file: File): Promise<ImportResult> {
-	if (file.size > MAX_CIRCUIT_UPLOAD) return { ok: false, errors: [`${file.name} is ${file.size} bytes; the limit is ${MAX_CIRCUIT_UPLOAD} bytes.`] };
-	const text = await file.text();
-	return importCircuitText(file.name, text);
-}
-
-/** Tell the formats apart by content first (a JSON document starts with "{"), then by name. */
+/**
+ * Read an uploaded circuit (OpenQASM 2.0 / 3.0 or an Orrery JSON document). Requests call it in the
+ * worker pool (heavy/index.ts importUpload). Tell the formats apart by content first (a JSON document starts with "{"), then by name. */
 export function importCircuitText(name: string, text: string): ImportResult {
 	const trimmed = text.trimStart();
 	if (trimmed.startsWith('{') || /\.json$/i.test(name)) return importJson(name, text);

@@ -3,7 +3,7 @@ import { db } from './db';
 import { sha256 } from './ids';
 import type { TeamAccess } from './guard';
 import { checkSnapshot } from './png';
-import { computeTraceSummary, drawBoardAt } from './trace-compute';
+import { boardAt, readPostedDocument, traceSummary } from './heavy';
 import { createCircuit, findCircuit, findVersion, saveVersion, StaleVersionError } from './repositories/circuits';
 import { findTrace, insertTrace } from './repositories/traces';
 import { createReport, findReport, ReportConflict, setReportBoard } from './repositories/reports';
@@ -12,7 +12,7 @@ import { enqueueIfSpecified } from './checks/enqueue';
 import { listBreakpoints } from './repositories/breakpoints';
 import { listMembers } from './repositories/teams';
 import { can } from '$lib/permissions';
-import { parseCircuitDocument, serializeCircuitDocument } from '$lib/quantum/schema';
+import { serializeCircuitDocument } from '$lib/quantum/schema';
 import { createReportSchema, MAX_SNAPSHOT_BYTES, type CreateReportInput } from '$lib/schemas/debugging';
 import type { z } from 'zod';
 import type { createTraceSchema } from '$lib/schemas/debugging';
@@ -23,7 +23,6 @@ import type { createTraceSchema } from '$lib/schemas/debugging';
 
 type CreateTrace = z.infer<typeof createTraceSchema>;
 
-const unprocessable = (message: string): never => error(422, { message, code: 'bad_request' });
 
 /**
  * The circuit version a trace refers to. From the command line the target is explicit: a
@@ -38,14 +37,16 @@ async function resolveVersion(access: TeamAccess, body: CreateTrace) {
 		if (!version) error(404, { message: `This circuit has no version ${body.version}.`, code: 'not_found' });
 		return { circuit, version, added: false };
 	}
-	const parsed = parseCircuitDocument(body.document);
-	if (!parsed.ok) unprocessable(`The circuit document is not valid: ${parsed.issues.slice(0, 5).map((i) => `${i.path}: ${i.message}`).join('; ')}`);
+	// Validated and sized in the worker pool (a document whose calls nest past the workbench's limit is refused with its path).
+	const parsed = await readPostedDocument({ json: body.document }, "Checking the trace's circuit");
+	if (!parsed.ok) error(parsed.status === 400 ? 422 : parsed.status, { message: `The circuit document is not valid: ${parsed.message}`, code: 'bad_request' });
 	const doc = parsed.ok ? parsed.document : (null as never);
+	const gateCount = parsed.ok ? parsed.gateCount : 0;
 	if (!body.circuitId) {
 		// A trace makes a circuit only for a member who may edit circuits (trace.create is the same roles today).
 		if (!can(access.role, 'circuit.edit')) error(403, { message: 'Your role in this team does not allow this.', code: 'forbidden' });
 		if (body.newTitle) doc.title = body.newTitle;
-		const made = await createCircuit(db, access.team.id, access.user.id, doc, 'pushed from the command line');
+		const made = await createCircuit(db, access.team.id, access.user.id, doc, 'pushed from the command line', gateCount);
 		return { circuit: made.circuit, version: (await findVersion(db, made.circuit.id, made.version))!, added: true };
 	}
 	if (!can(access.role, 'circuit.edit')) error(403, { message: 'Your role in this team does not allow this.', code: 'forbidden' });
@@ -66,7 +67,7 @@ async function resolveVersion(access: TeamAccess, body: CreateTrace) {
 	if (base !== circuit.latest_version) stale(circuit.latest_version);
 	let number: number;
 	try {
-		number = await saveVersion(db, circuit.id, base, access.user.id, doc, body.force ? 'pushed from the command line (forced)' : 'pushed from the command line');
+		number = await saveVersion(db, circuit.id, base, access.user.id, doc, body.force ? 'pushed from the command line (forced)' : 'pushed from the command line', gateCount);
 	} catch (e) {
 		if (e instanceof StaleVersionError) stale(e.latest);
 		throw e;
@@ -91,7 +92,7 @@ export async function saveTrace(access: TeamAccess, body: CreateTrace): Promise<
 	// Every push (a trace carrying its document) queues a server check of the version it pushed or matched.
 	if (body.document !== undefined) await enqueueIfSpecified(db, version.document, { teamId: access.team.id, circuitId: circuit.id, version: version.version, userId: access.user.id, reason: 'push' });
 	const inputs = { values: body.inputs.values, superposed: body.inputs.superposed };
-	const summary = body.summary ?? computeTraceSummary(version.document, inputs);
+	const summary = body.summary ?? (await traceSummary(version.document, inputs));
 	const computedBy = body.summary ? 'browser' : 'server';
 	const id = await insertTrace(db, { teamId: access.team.id, circuitId: circuit.id, versionId: version.id, version: version.version, authorId: access.user.id, label: body.label, inputs, summary, computedBy });
 	return { id, computedBy, circuitId: circuit.id, version: version.version, addedVersion: added, firstDivergence: summary.firstDivergence, lastStep: summary.lastStep };
@@ -160,7 +161,7 @@ async function drawReportBoard(teamId: string, reportId: string, traceId: string
 	if (!version) return false;
 	try {
 		const inputs = Object.entries(trace.inputs.values).map(([k, v]) => `${k}=${v}`).join(', ');
-		const picture = drawBoardAt(version.document, trace.inputs, step, [`${circuitTitle} v${trace.version}${inputs ? ` · inputs ${inputs}` : ''}`]);
+		const picture = await boardAt(version.document, trace.inputs, step, [`${circuitTitle} v${trace.version}${inputs ? ` · inputs ${inputs}` : ''}`]);
 		await setReportBoard(db, reportId, picture.svg, picture.ledger);
 		return true;
 	} catch (e) {

@@ -4,7 +4,7 @@ import { newId, sha256 } from '../ids';
 import { deleteReportSnapshots } from './attachments';
 import { serializeCircuitDocument } from '$lib/quantum/schema';
 import type { CircuitDocument } from '$lib/quantum/circuit';
-import { lowerCircuit } from '$lib/quantum/lower';
+import { countLoweredGates } from '../gate-count';
 
 export type CircuitRow = {
 	id: string;
@@ -61,19 +61,7 @@ export function summarizeRegisters(doc: CircuitDocument): string {
 	return doc.registers.map((r) => `${r.name}[${r.size}]`).join(' ').slice(0, 255);
 }
 
-/** Most gates the server lowers just to count them (a save must not start unbounded work). */
-export const MAX_COUNTED_GATES = 1_000_000;
-/** Most block calls expanded for that count (calls that make no gate are work too). */
-export const MAX_COUNTED_CALLS = 20_000;
-
-/** Gate count after lowering; 0 when the document does not lower or is past the bound (the workbench says why). */
-export function countLoweredGates(doc: CircuitDocument): number {
-	try {
-		return lowerCircuit(doc, { limits: { maxGates: MAX_COUNTED_GATES, maxCalls: MAX_COUNTED_CALLS } }).gateCount;
-	} catch {
-		return 0;
-	}
-}
+export { countLoweredGates, MAX_COUNTED_CALLS, MAX_COUNTED_GATES } from '../gate-count';
 
 function readDocument(raw: unknown): CircuitDocument {
 	return (typeof raw === 'string' ? JSON.parse(raw) : raw) as CircuitDocument;
@@ -154,7 +142,9 @@ export async function createCircuit(
 	teamId: string,
 	userId: string,
 	doc: CircuitDocument,
-	message = 'created'
+	message = 'created',
+	/** Counted by the caller in the worker pool (requests); counted here when absent (seeds, tests). */
+	gateCount?: number
 ): Promise<{ circuit: CircuitRow; version: number }> {
 	return db.transaction(async (trx) => {
 		const id = newId();
@@ -166,7 +156,7 @@ export async function createCircuit(
 			created_by: userId,
 			latest_version: 1,
 			register_summary: summarizeRegisters(doc),
-			gate_count: countLoweredGates(doc)
+			gate_count: gateCount ?? countLoweredGates(doc)
 		});
 		await trx('circuit_versions').insert({
 			id: newId(),
@@ -193,7 +183,9 @@ export async function saveVersion(
 	base: number,
 	userId: string,
 	doc: CircuitDocument,
-	message = ''
+	message = '',
+	/** Counted by the caller in the worker pool (requests); counted here when absent (seeds, tests). */
+	gateCount?: number
 ): Promise<number> {
 	return db.transaction(async (trx) => {
 		const row = await trx<CircuitRow>('circuits').where({ id: circuitId }).forUpdate().first();
@@ -214,7 +206,7 @@ export async function saveVersion(
 			latest_version: version,
 			title: doc.title.slice(0, 120),
 			register_summary: summarizeRegisters(doc),
-			gate_count: countLoweredGates(doc),
+			gate_count: gateCount ?? countLoweredGates(doc),
 			updated_at: trx.fn.now(3)
 		});
 		await trx('audit_log').insert({ actor_id: userId, team_id: row.team_id, action: 'circuit.save', subject_type: 'circuit', subject_id: circuitId, detail: JSON.stringify({ version }) });

@@ -4,7 +4,7 @@ import { requireTeamRole } from '$lib/server/guard';
 import { parseForm, formFailure } from '$lib/server/forms';
 import { can } from '$lib/permissions';
 import { createCircuit, deleteCircuit, findCircuit, findVersion, listCircuits } from '$lib/server/repositories/circuits';
-import { importCircuitFile } from '$lib/server/circuit-import';
+import { countGates, importUpload } from '$lib/server/heavy';
 import { circuitIdSchema, newCircuitSchema } from '$lib/schemas/circuits';
 import { makeTemplate } from '$lib/quantum/templates';
 import { routes } from '$lib/routes';
@@ -39,7 +39,7 @@ export const actions: Actions = {
 		const form = await parseForm(request, newCircuitSchema);
 		if (!form.ok) return form.failure;
 		const doc = makeTemplate(form.data.template, form.data.title, form.data.bits);
-		const { circuit } = await createCircuit(db, access.team.id, access.user.id, doc, `created from template ${form.data.template}`);
+		const { circuit } = await createCircuit(db, access.team.id, access.user.id, doc, `created from template ${form.data.template}`, await countGates(doc));
 		await enqueueIfSpecified(db, doc, { teamId: access.team.id, circuitId: circuit.id, version: 1, userId: access.user.id, reason: 'create' });
 		redirect(303, routes.circuit(access.team.slug, circuit.id));
 	},
@@ -49,9 +49,10 @@ export const actions: Actions = {
 		const data = await request.formData();
 		const file = data.get('file');
 		if (!(file instanceof File) || file.size === 0) return formFailure(400, 'Choose a file to upload.', {}, 'file');
-		const result = await importCircuitFile(file);
-		if (!result.ok) return fail(400, { errors: { file: result.errors }, values: {} });
-		const { circuit } = await createCircuit(db, access.team.id, access.user.id, result.document, `imported from ${file.name}`);
+		// Read in the worker pool: past its time or memory limit the form says so (413/422), the server goes on.
+		const result = await importUpload(file);
+		if (!result.ok) return fail(result.status, { errors: { file: result.errors }, values: {} });
+		const { circuit } = await createCircuit(db, access.team.id, access.user.id, result.document, `imported from ${file.name}`, result.gateCount);
 		await enqueueIfSpecified(db, result.document, { teamId: access.team.id, circuitId: circuit.id, version: 1, userId: access.user.id, reason: 'upload' });
 		redirect(303, routes.circuit(access.team.slug, circuit.id));
 	},
@@ -65,7 +66,7 @@ export const actions: Actions = {
 		const version = await findVersion(db, source.id, source.latest_version);
 		if (!version) error(404, { message: 'That circuit has no saved version.', code: 'not_found' });
 		const doc = { ...version.document, title: `${version.document.title} (copy)`.slice(0, 120) };
-		const copy = await createCircuit(db, access.team.id, access.user.id, doc, `duplicated from ${source.title} v${source.latest_version}`);
+		const copy = await createCircuit(db, access.team.id, access.user.id, doc, `duplicated from ${source.title} v${source.latest_version}`, await countGates(doc));
 		await enqueueIfSpecified(db, doc, { teamId: access.team.id, circuitId: copy.circuit.id, version: 1, userId: access.user.id, reason: 'create' });
 		return { duplicated: true };
 	},

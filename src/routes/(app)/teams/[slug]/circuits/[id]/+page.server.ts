@@ -3,7 +3,7 @@ import { db } from '$lib/server/db';
 import { requireTeamRole } from '$lib/server/guard';
 import { can } from '$lib/permissions';
 import { createCircuit, findCircuit, findVersion, listVersions, saveVersion, StaleVersionError } from '$lib/server/repositories/circuits';
-import { parseCircuitDocument } from '$lib/quantum/schema';
+import { readPostedDocument } from '$lib/server/heavy';
 import { routes } from '$lib/routes';
 import { loadTeamDebug } from '$lib/server/debugging';
 import { enqueueIfSpecified, readProgress } from '$lib/server/checks/enqueue';
@@ -39,19 +39,11 @@ export const load: PageServerLoad = async ({ locals, params, url, depends }) => 
 	};
 };
 
-function readDocument(data: FormData) {
+/** The posted document, validated and sized in the worker pool (heavy/index.ts). */
+async function readDocument(data: FormData) {
 	const raw = data.get('document');
-	if (typeof raw !== 'string' || raw.length === 0) return { ok: false as const, message: 'The save carried no circuit.' };
-	if (raw.length > MAX_DOCUMENT_BYTES) return { ok: false as const, message: `The circuit is larger than ${MAX_DOCUMENT_BYTES} bytes.` };
-	let json: unknown;
-	try {
-		json = JSON.parse(raw);
-	} catch {
-		return { ok: false as const, message: 'The circuit was not valid JSON.' };
-	}
-	const parsed = parseCircuitDocument(json);
-	if (!parsed.ok) return { ok: false as const, message: parsed.issues.slice(0, 5).map((i) => `${i.path}: ${i.message}`).join('; ') };
-	return { ok: true as const, document: parsed.document };
+	if (typeof raw !== 'string' || raw.length === 0) return { ok: false as const, status: 400, message: 'The save carried no circuit.' };
+	return readPostedDocument({ text: raw, maxBytes: MAX_DOCUMENT_BYTES }, 'Checking the saved circuit');
 }
 
 export const actions: Actions = {
@@ -61,11 +53,11 @@ export const actions: Actions = {
 		if (!circuit) error(404, NOT_FOUND);
 		const data = await request.formData();
 		const base = Number(data.get('base'));
-		const doc = readDocument(data);
-		if (!doc.ok) return fail(400, { saveError: doc.message });
+		const doc = await readDocument(data);
+		if (!doc.ok) return fail(doc.status, { saveError: doc.message });
 		if (!Number.isInteger(base) || base < 1) return fail(400, { saveError: 'The save did not say which version it was based on.' });
 		try {
-			const version = await saveVersion(db, circuit.id, base, access.user.id, doc.document, String(data.get('message') ?? '').slice(0, 255));
+			const version = await saveVersion(db, circuit.id, base, access.user.id, doc.document, String(data.get('message') ?? '').slice(0, 255), doc.gateCount);
 			const check = await enqueueIfSpecified(db, doc.document, { teamId: access.team.id, circuitId: circuit.id, version, userId: access.user.id, reason: 'save' });
 			return { saved: version, checkId: check?.id ?? null };
 		} catch (e) {
@@ -81,10 +73,10 @@ export const actions: Actions = {
 	saveCopy: async ({ locals, params, request }) => {
 		const access = await requireTeamRole(locals, params.slug, 'circuit.edit');
 		const data = await request.formData();
-		const doc = readDocument(data);
-		if (!doc.ok) return fail(400, { saveError: doc.message });
+		const doc = await readDocument(data);
+		if (!doc.ok) return fail(doc.status, { saveError: doc.message });
 		const copy = { ...doc.document, title: `${doc.document.title} (my copy)`.slice(0, 120) };
-		const { circuit } = await createCircuit(db, access.team.id, access.user.id, copy, `copy of ${params.id}`);
+		const { circuit } = await createCircuit(db, access.team.id, access.user.id, copy, `copy of ${params.id}`, doc.gateCount);
 		await enqueueIfSpecified(db, copy, { teamId: access.team.id, circuitId: circuit.id, version: 1, userId: access.user.id, reason: 'save' });
 		redirect(303, routes.circuit(access.team.slug, circuit.id));
 	}
