@@ -9,7 +9,9 @@ import { importUpload, readPostedDocument, traceSummary } from './index';
 // pool (piscina, the bundle esbuild makes from worker.ts) with small limits, so a runaway task is
 // stopped in a test-sized time. The hostile inputs are the issue's, kept in tests/fixtures/hostile.
 
-heavyLimits.timeMs = 1500;
+// The time limit is short only in the test of the time limit: the machine is shared, and the other
+// tests must not be stopped by it when it is busy.
+heavyLimits.timeMs = 60_000;
 heavyLimits.memoryMb = 96;
 
 const hostile = (name: string) => readFileSync(`tests/fixtures/hostile/${name}`, 'utf8');
@@ -31,7 +33,8 @@ describe('heavy-work pool', () => {
 	it('stops a task past its time limit with 422 naming what it did, while the web thread keeps running', async () => {
 		let ticks = 0;
 		const tick = setInterval(() => ticks++, 10);
-		const r = await refusal(runHeavy('spin', { ms: 60_000 }, 'Reading spin.qasm'));
+		heavyLimits.timeMs = 1500;
+		const r = await refusal(runHeavy('spin', { ms: 120_000 }, 'Reading spin.qasm')).finally(() => (heavyLimits.timeMs = 60_000));
 		clearInterval(tick);
 		expect(r.status).toBe(422);
 		expect(r.message).toMatch(/^Reading spin\.qasm: stopped after 1\.5 s of computation/);

@@ -2,11 +2,12 @@
 // traces computed on the server, report boards, exports. One Node process serves everyone, so a
 // request that computes for seconds must not do it on the event loop. Each task runs in a pool
 // thread (piscina) under two limits besides the work budgets inside the task:
-//   - time: ORRERY_HEAVY_TIME_MS (default 8 s) from the moment a thread starts it; past that the
-//     thread is terminated and the request gets 422 naming what was being done;
+//   - time: ORRERY_HEAVY_TIME_MS (default 15 s of wall clock, generous for a shared machine) from
+//     the moment a thread starts it; past that the thread is terminated and the request gets 422
+//     naming what was being done;
 //   - memory: ORRERY_HEAVY_MEMORY_MB (default 512) of old-generation heap per thread; past that
 //     V8 stops the thread and the request gets 413.
-// A task waits in the queue at most QUEUE_WAIT_MS and the queue holds at most MAX_QUEUE tasks;
+// A task waits in the queue at most queueWaitMs and the queue holds at most maxQueue tasks;
 // past either the request gets 503 (try again). A killed thread is replaced; the server goes on.
 import { existsSync } from 'node:fs';
 import { availableParallelism } from 'node:os';
@@ -25,7 +26,7 @@ const envNumber = (name: string, fallback: number) => {
 
 export const heavyLimits = {
 	/** Milliseconds one task may run once a thread has started it. */
-	timeMs: envNumber('ORRERY_HEAVY_TIME_MS', 8000),
+	timeMs: envNumber('ORRERY_HEAVY_TIME_MS', 15_000),
 	/** Old-generation heap of one thread, MiB. */
 	memoryMb: envNumber('ORRERY_HEAVY_MEMORY_MB', 512),
 	/** Threads: at least 2 (one hostile task never holds up every other), at most 4. */
