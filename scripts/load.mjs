@@ -56,6 +56,6 @@ const seconds = (performance.now() - t0) / 1000;
 latencies.sort((a, b) => a - b);
 const pct = (p) => latencies[Math.min(latencies.length - 1, Math.floor((p / 100) * latencies.length))].toFixed(1);
 console.log(`load: ${latencies.length} requests in ${seconds.toFixed(1)} s = ${(latencies.length / seconds).toFixed(0)} requests/s`);
-console.log(`load: latency ms p50 ${pct(50)}  p90 ${pct(90)}  p99 ${pct(99)}  max ${latencies.at(-1).toFixed(1)}`);
+console.log(`load: latency ms p50 ${pct(50)}  p90 ${pct(90)}  p95 ${pct(95)}  p99 ${pct(99)}  max ${latencies.at(-1).toFixed(1)}`);
 console.log(`load: errors ${errors.size ? [...errors].map(([k, n]) => `${k} ×${n}`).join(', ') : 'none'}`);
 process.exit(errors.size ? 1 : 0);

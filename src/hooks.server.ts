@@ -85,9 +85,10 @@ export const handle: Handle = async ({ event, resolve }) => {
 };
 
 /**
- * Headers on every answer (issue 10). Pages get a policy that forbids framing, plugins and a
- * foreign base (a full kit.csp for pages is not in yet); answers that are not pages (API JSON,
- * images, files) get a deny-all policy, so a stored file opened directly can run nothing. Reset and invitation links carry their token in
+ * Headers on every answer (issue 10). Pages carry the policy of `kit.csp` (svelte.config.js: the
+ * app's own scripts with SvelteKit's nonce, no framing, no plugins, no foreign base or form
+ * target); every other answer (API JSON, images, files, redirects) gets a deny-all policy, so a
+ * stored file opened directly can run nothing. Reset and invitation links carry their token in
  * the path: the referrer policy keeps it from reaching other sites.
  */
 function withSecurityHeaders(response: Response): Response {
@@ -95,11 +96,9 @@ function withSecurityHeaders(response: Response): Response {
 		h.set('x-content-type-options', 'nosniff');
 		h.set('referrer-policy', 'same-origin');
 		h.set('x-frame-options', 'DENY');
+		// A page already has kit.csp's policy (and the report board its sandboxed one): keep it.
 		if (h.has('content-security-policy')) return;
-		// A page runs the app's own scripts: until kit.csp gives pages a full policy they get one that
-		// still forbids framing and plugins. Anything else (JSON, images, files) may run nothing.
-		const html = (h.get('content-type') ?? '').startsWith('text/html');
-		h.set('content-security-policy', html ? "frame-ancestors 'none'; base-uri 'self'; object-src 'none'" : "default-src 'none'; frame-ancestors 'none'; base-uri 'none'; form-action 'none'");
+		h.set('content-security-policy', "default-src 'none'; frame-ancestors 'none'; base-uri 'none'; form-action 'none'");
 	};
 	try {
 		set(response.headers);

@@ -4,6 +4,9 @@
 // Angles are in turns; a dial's 0 is at twelve o'clock and angles grow clockwise, as a
 // reader expects of a dial (the direction is stated in the board's legend).
 import { Application, BitmapText, Circle, Container, Graphics, Text, type FederatedPointerEvent } from 'pixi.js';
+// The pages' content security policy has no 'unsafe-eval': this swaps pixi's generated shader
+// and uniform code (new Function) for prebuilt functions. Imported after pixi.js, before any Application.
+import 'pixi.js/unsafe-eval';
 import {
 	groupByRegister,
 	isDiverged,
