@@ -3,9 +3,19 @@ import { importQasm } from '../lib/quantum/qasm/import.js';
 import { applyRegisterMap, parseRegisterMapEntry, RegisterMapError, type RegisterMapEntry } from '../lib/quantum/qasm/register-map.js';
 import { readCircuitDocument } from '../lib/quantum/schema.js';
 import type { CircuitDocument } from '../lib/quantum/circuit.js';
+import { parseRegisterValues } from '../lib/quantum/inputs.js';
 
 /** An unusable command line or file: printed as it is, exit code 2. */
 export class CliError extends Error {}
+
+/** `name=value` pairs of the option `what` (`--input a=5,b=3`), through the core's one parser. */
+export function readRegisterValues(text: string, what: string): Map<string, bigint> {
+	try {
+		return parseRegisterValues(text);
+	} catch (e) {
+		throw new CliError(`${what}: ${(e as Error).message}`);
+	}
+}
 
 export interface Args {
 	positional: string[];

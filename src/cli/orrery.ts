@@ -7,7 +7,7 @@
  */
 import { readFileSync, writeFileSync } from 'node:fs';
 import { exportQasm } from '../lib/quantum/qasm/export.js';
-import { CliError as UsageError, FILE_OPTIONS, loadCircuitFile, parseArgs as parseCliArgs, readOptionsFrom, type Args, type ReadOptions } from './files.js';
+import { CliError as UsageError, FILE_OPTIONS, loadCircuitFile, parseArgs as parseCliArgs, readRegisterValues, readOptionsFrom, type Args, type ReadOptions } from './files.js';
 import { circuitUnitary, restrictToCleanAncillas, unitaryDistance } from '../lib/quantum/check/equivalence.js';
 import { QasmError } from '../lib/quantum/qasm/lexer.js';
 import { lowerCircuit } from '../lib/quantum/lower.js';
@@ -90,16 +90,6 @@ function lower(doc: CircuitDocument, path: string): LoweredCircuit {
 	}
 }
 
-function parseValues(text: string, what: string): Map<string, bigint> {
-	const m = new Map<string, bigint>();
-	for (const part of text.split(',').filter(Boolean)) {
-		const mm = /^\s*([A-Za-z_][A-Za-z0-9_]*)\s*=\s*(0x[0-9a-fA-F]+|0b[01]+|\d+)\s*$/.exec(part);
-		if (!mm) throw new UsageError(`${what}: expected name=value pairs such as a=5,b=3, got "${part}"`);
-		m.set(mm[1], BigInt(mm[2]));
-	}
-	return m;
-}
-
 function inputChoice(args: Args, c: LoweredCircuit): InputChoice | undefined {
 	const v = args.flags.get('--inputs')?.[0];
 	const seed = Number(args.flags.get('--seed')?.[0] ?? 1);
@@ -108,7 +98,7 @@ function inputChoice(args: Args, c: LoweredCircuit): InputChoice | undefined {
 	if (v === 'all') return { mode: 'all' };
 	const r = /^random:(\d+)$/.exec(v);
 	if (r) return { mode: 'random', count: Math.max(1, Math.min(10_000_000, Number(r[1]))), seed };
-	const values = parseValues(v, '--inputs');
+	const values = readRegisterValues(v, '--inputs');
 	for (const [k, x] of values) {
 		const reg = c.registers.find((q) => q.name === k);
 		if (!reg) throw new UsageError(`--inputs: unknown register "${k}"; the circuit has ${c.registers.map((q) => q.name).join(', ')}`);
@@ -211,7 +201,7 @@ export function main(argv: string[], io: Io = nodeIo): number {
 				const input = args.flags.get('--input')?.[0];
 				const { doc } = loadDocument(rest[0], io);
 				const c = lower(doc, rest[0]);
-				const values = input ? parseValues(input, '--input') : new Map<string, bigint>();
+				const values = input ? readRegisterValues(input, '--input') : new Map<string, bigint>();
 				for (const k of values.keys()) if (!c.registers.some((r) => r.name === k)) throw new UsageError(`--input: unknown register "${k}"`);
 				const engine = (args.flags.get('--engine')?.[0] ?? 'ledger') as 'ledger' | 'amplitudes';
 				if (engine !== 'ledger' && engine !== 'amplitudes') throw new UsageError('--engine must be ledger or amplitudes');

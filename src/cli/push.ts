@@ -9,7 +9,7 @@
  */
 import { readFileSync } from 'node:fs';
 import { pathToFileURL } from 'node:url';
-import { CliError as PushError, FILE_OPTIONS, loadCircuitFile, parseArgs, readOptionsFrom, type ReadOptions } from './files.js';
+import { CliError as PushError, FILE_OPTIONS, loadCircuitFile, parseArgs, readOptionsFrom, readRegisterValues, type ReadOptions } from './files.js';
 import { QasmError } from '../lib/quantum/qasm/lexer.js';
 import { lowerCircuit } from '../lib/quantum/lower.js';
 import type { CircuitDocument } from '../lib/quantum/circuit.js';
@@ -86,16 +86,6 @@ export function pushTarget(flags: Flags): Target {
 	return { circuitId: circuit, baseVersion: Number(baseText), force };
 }
 
-function values(text: string, what: string): Map<string, bigint> {
-	const m = new Map<string, bigint>();
-	for (const part of text.split(',').filter(Boolean)) {
-		const mm = /^\s*([A-Za-z_][A-Za-z0-9_]*)\s*=\s*(0x[0-9a-fA-F]+|0b[01]+|\d+)\s*$/.exec(part);
-		if (!mm) throw new PushError(`${what}: expected name=value pairs such as a=5,b=3, got "${part}"`);
-		m.set(mm[1], BigInt(mm[2]));
-	}
-	return m;
-}
-
 function loadDocument(path: string, io: PushIo, options: ReadOptions): CircuitDocument {
 	return loadCircuitFile(path, (p) => io.readFile(p), options).doc;
 }
@@ -166,7 +156,7 @@ export async function runPush(argv: string[], io: PushIo = nodeIo, env: Record<s
 
 		const inputText = flags.get('--input')?.[0];
 		const traceValues: Record<string, string> = inputText
-			? Object.fromEntries([...values(inputText, '--input')].map(([k, v]) => [k, v.toString()]))
+			? Object.fromEntries([...readRegisterValues(inputText, '--input')].map(([k, v]) => [k, v.toString()]))
 			: (report.failures[0]?.input ?? {});
 		for (const k of Object.keys(traceValues)) if (!c.registers.some((r) => r.name === k)) throw new PushError(`--input: unknown register "${k}"`);
 

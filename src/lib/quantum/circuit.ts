@@ -523,6 +523,15 @@ export function flatQubit(c: { registers: PlacedRegister[] }, name: string, inde
 }
 
 /**
+ * Flat qubit `q` in the user's words, `reg[i]` (register `reg`, index i, index 0 = LSB); `q<n>`
+ * for a qubit outside every register. The one label every screen, message and report uses.
+ */
+export function qubitLabel(registers: readonly PlacedRegister[], q: number): string {
+	for (const r of registers) if (q >= r.offset && q < r.offset + r.size) return `${r.name}[${q - r.offset}]`;
+	return `q${q}`;
+}
+
+/**
  * Fourier level m of qubit `index` of an n-qubit register in `layout` (the qubit holds phase
  * x/2^m turn for value x): swapped → n − index, unswapped → index + 1.
  */

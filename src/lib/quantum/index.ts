@@ -15,3 +15,4 @@ export * from './expect.js';
 export * from './ledger.js';
 export * from './amplitudes.js';
 export * from './run.js';
+export * from './inputs.js';

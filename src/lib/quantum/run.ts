@@ -25,7 +25,7 @@ import {
 	type StateVector
 } from './amplitudes.js';
 import { addAngles, divergence, dyadic, floatTurns, formatRadians, formatTurns, isZeroSigned, ZERO_ANGLE, type Angle, type SignedAngle } from './angle.js';
-import { gateAt, type GateView, type LoweredCircuit } from './circuit.js';
+import { gateAt, qubitLabel, type GateView, type LoweredCircuit } from './circuit.js';
 import { computeExpectations, ExpectKind, noteKey, type ExpectationEvents } from './expect.js';
 import { computeIntentExpectations, mergeExpectations, type FourierSection, type RegisterIntent } from './intent.js';
 import {
@@ -367,7 +367,7 @@ export class Run {
 							qubit: q,
 							boundary: ev.boundary[e] === 1,
 							divergence: r.divergence,
-							message: `q${q} (${this.qubitName(q)}) at step ${step}: expected ${describeExpected(exp)}, got ${describeState(actual)}`
+							message: `q${q} (${qubitLabel(this.circuit.registers, q)}) at step ${step}: expected ${describeExpected(exp)}, got ${describeState(actual)}`
 						});
 				}
 			}
@@ -412,11 +412,6 @@ export class Run {
 	/** Last step a frame can be shown for (stepCount unless the run stopped). */
 	get lastStep(): number {
 		return this.stopped ? this.stopped.step : this.stepCount;
-	}
-
-	private qubitName(q: number): string {
-		const r = this.circuit.registers[this.regOfQubit[q]];
-		return `${r.name}[${q - r.offset}]`;
 	}
 
 	private expectedOf(e: number): ExpectedState {

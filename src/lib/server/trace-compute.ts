@@ -2,9 +2,9 @@ import { error } from '@sveltejs/kit';
 import { lowerCircuit, LoweringError } from '$lib/quantum/lower';
 import { Run } from '$lib/quantum/run';
 import type { CircuitDocument } from '$lib/quantum/circuit';
-import { parseInputValue } from '$lib/worker/inputs';
+import { parseRegisterValue } from '$lib/quantum/inputs';
 import { describeGate, prepareIntents, toFrameView } from '$lib/worker/engine';
-import { gateAt, gateProvenance, type LoweredCircuit } from '$lib/quantum/circuit';
+import { gateAt, gateProvenance, qubitLabel, type LoweredCircuit } from '$lib/quantum/circuit';
 import { formatTurns } from '$lib/quantum/angle';
 import { renderDialBoardSvg } from '$lib/dials/dial-svg';
 import type { TraceSummaryInput } from '$lib/schemas/debugging';
@@ -45,7 +45,7 @@ function runOnServer(doc: CircuitDocument, inputs: ServerInputs): { circuit: Low
 		for (const r of circuit.registers) {
 			if (inputs.superposed.includes(r.name)) continue;
 			const raw = inputs.values[r.name];
-			if (raw !== undefined) values[r.name] = parseInputValue(raw, r.name, r.size);
+			if (raw !== undefined) values[r.name] = parseRegisterValue(raw, r.name, r.size);
 		}
 		for (const name of Object.keys(inputs.values)) if (!circuit.registers.some((r) => r.name === name)) unprocessable(`The circuit has no register "${name}".`);
 	} catch (e) {
@@ -65,10 +65,7 @@ function runOnServer(doc: CircuitDocument, inputs: ServerInputs): { circuit: Low
 /** Lower and run `doc` on `inputs` within the server's bounds; the summary a browser would send. */
 export function computeTraceSummary(doc: CircuitDocument, inputs: ServerInputs): TraceSummaryInput {
 	const { circuit, run } = runOnServer(doc, inputs);
-	const label = (q: number) => {
-		const r = circuit.registers.find((x) => q >= x.offset && q < x.offset + x.size)!;
-		return `${r.name}[${q - r.offset}]`;
-	};
+	const label = (q: number) => qubitLabel(circuit.registers, q);
 	const last = run.frameAt(run.lastStep);
 	const registerValues: Record<string, string | null> = {};
 	for (const [k, v] of Object.entries(last.registerValues)) registerValues[k] = v === null ? null : v.toString();
@@ -114,10 +111,7 @@ export function drawBoardAt(doc: CircuitDocument, inputs: ServerInputs, step: nu
 		loop: {},
 		source: g === null ? null : (gateProvenance(circuit, g).source ?? null)
 	});
-	const label = (q: number) => {
-		const r = circuit.registers.find((x) => q >= x.offset && q < x.offset + x.size)!;
-		return `${r.name}[${q - r.offset}]`;
-	};
+	const label = (q: number) => qubitLabel(circuit.registers, q);
 	const qubit = view.diverged[0] ?? run.divergences[0]?.qubit ?? null;
 	let ledger: LedgerExcerpt | null = null;
 	if (qubit !== null) {

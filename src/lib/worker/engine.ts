@@ -3,7 +3,7 @@
 import { lowerCircuit, LoweringError } from '$lib/quantum/lower';
 import { Run, type QubitFrame, type TraceFrame } from '$lib/quantum/run';
 import { formatTurns, toTurns, toTurnsSigned, type Angle, type SignedAngle } from '$lib/quantum/angle';
-import { GateCode, gateAt, gateDisplayName, gateProvenance, type CircuitDocument, type GateView, type LoweredCircuit } from '$lib/quantum/circuit';
+import { GateCode, gateAt, gateDisplayName, gateProvenance, qubitLabel, type CircuitDocument, type GateView, type LoweredCircuit } from '$lib/quantum/circuit';
 import { parseInputValue } from './inputs';
 import { evaluateSpec, parseSpec, SpecError } from '$lib/quantum/check/spec';
 import { checkCircuit, countResources, type InputChoice } from '$lib/quantum/check/index';
@@ -26,10 +26,7 @@ const fracText = (a: Angle | SignedAngle): string => formatTurns(a).replace(/ tu
 
 
 export function describeGate(g: GateView, c: LoweredCircuit): string {
-	const name = (q: number) => {
-		const r = c.registers.find((x) => q >= x.offset && q < x.offset + x.size)!;
-		return `${r.name}[${q - r.offset}]`;
-	};
+	const name = (q: number) => qubitLabel(c.registers, q);
 	const angle = g.angle ? `(${fracText(g.angle)} turn)` : '';
 	const ctl = g.controls.length ? `${g.controls.map(name).join(', ')} → ` : '';
 	return `${gateDisplayName(g.kind, g.controls.length)}${angle} ${ctl}${g.targets.map(name).join(', ')}`;

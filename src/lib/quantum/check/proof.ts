@@ -14,7 +14,7 @@
  * Cost: O(expanded terms) per gate; an n-bit multiplier with native ccp is O(n³) map updates.
  */
 import { addAngles, dyadic, formatTurns, negateAngle, reduceSigned, scaleAngle, subtractAngles, isZeroSigned, ZERO_ANGLE, type Angle } from '../angle.js';
-import { gateAt, gateProvenance, GateCode, type LoweredCircuit, type PlacedRegister } from '../circuit.js';
+import { gateAt, gateProvenance, GateCode, qubitLabel, type LoweredCircuit, type PlacedRegister } from '../circuit.js';
 import { mulKeys, registerPoly, type IntPoly } from './spec.js';
 
 /** One contribution to a phase term: gate index and the amount it added (turns). */
@@ -175,7 +175,7 @@ function anfXorProduct(target: Anf, factors: Anf[], gate: number): void {
 export function proveCircuit(c: LoweredCircuit, goal: ProofGoal): ProofResult {
 	const regOfQubit: PlacedRegister[] = [];
 	for (const r of c.registers) for (let i = 0; i < r.size; i++) regOfQubit.push(r);
-	const qname = (q: number) => `${regOfQubit[q].name}[${q - regOfQubit[q].offset}]`;
+	const qname = (q: number) => qubitLabel(c.registers, q);
 	const termName = (key: string) => (key === '' ? '1' : key.split('.').map((x) => qname(Number(x))).join('*'));
 	const lineOf = (g: number) => gateProvenance(c, g).source?.line ?? -1;
 	const state: QState[] = [];

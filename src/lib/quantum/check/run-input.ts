@@ -6,7 +6,7 @@
 import { applyLedgerGate, buildLedgerTables, createLedgerState, entanglingReason, LedgerKind, ledgerPhase, ledgerToAmplitudes } from '../ledger.js';
 import { applyLoweredGates, blochVector, buildGateTables, registerDistribution, AMPLITUDE_QUBIT_LIMITS } from '../amplitudes.js';
 import { formatTurns } from '../angle.js';
-import type { LoweredCircuit } from '../circuit.js';
+import { qubitLabel, type LoweredCircuit } from '../circuit.js';
 
 /** Frame of one qubit at the step read. */
 export interface QubitReadout {
@@ -43,8 +43,7 @@ export function runBasisInput(c: LoweredCircuit, values: Map<string, bigint>, op
 		const v = values.get(r.name) ?? 0n;
 		for (let i = 0; i < r.size; i++) bits[r.offset + i] = Number((v >> BigInt(i)) & 1n);
 	}
-	const names: string[] = [];
-	for (const r of c.registers) for (let i = 0; i < r.size; i++) names.push(`${r.name}[${i}]`);
+	const names = Array.from({ length: c.qubitCount }, (_, q) => qubitLabel(c.registers, q));
 	const lt = buildLedgerTables(c);
 	const ls = createLedgerState(c.qubitCount, bits);
 	let g = 0;

@@ -4,7 +4,7 @@
  * the strongest suspect); sweep failures outside the Fourier form fall back to the last gates
  * that touched a qubit ending wrong. Qubit names read register[index], index 0 = LSB.
  */
-import { gateAt, gateProvenance, GATE_KINDS, type LoweredCircuit } from '../circuit.js';
+import { gateAt, gateProvenance, GATE_KINDS, qubitLabel, type LoweredCircuit } from '../circuit.js';
 import type { ProofResult } from './proof.js';
 import type { SweepCase } from './sweep.js';
 
@@ -17,11 +17,6 @@ export interface Suspect {
 	qubit: string;
 	reason: string;
 	score: number;
-}
-
-function qubitName(c: LoweredCircuit, q: number): string {
-	for (const r of c.registers) if (q >= r.offset && q < r.offset + r.size) return `${r.name}[${q - r.offset}]`;
-	return `q${q}`;
 }
 
 /** Rank suspects from proof findings and sweep failures (at most `limit`). */
@@ -42,7 +37,7 @@ export function findSuspects(c: LoweredCircuit, proof: ProofResult | null, failu
 			line: src?.line ?? null,
 			column: src?.column ?? null,
 			kind: GATE_KINDS[c.kinds[g]],
-			qubit: qubitName(c, v.targets[v.targets.length - 1]),
+			qubit: qubitLabel(c.registers, v.targets[v.targets.length - 1]),
 			reason,
 			score
 		});
@@ -92,7 +87,7 @@ export function findSuspects(c: LoweredCircuit, proof: ProofResult | null, failu
 				const k = seen.get(q) ?? 0;
 				if (k >= 2) continue;
 				seen.set(q, k + 1);
-				add(g, 1 / (k + 1), `one of the last gates to touch ${qubitName(c, q)}, which ends wrong for input ${JSON.stringify(failures[0].input)}`);
+				add(g, 1 / (k + 1), `one of the last gates to touch ${qubitLabel(c.registers, q)}, which ends wrong for input ${JSON.stringify(failures[0].input)}`);
 				break;
 			}
 		}

@@ -23,7 +23,7 @@
  * Qubit order: flat qubits (register offset + index, index 0 = LSB). Angles: turns.
  */
 import { addAngles, dyadic, formatTurns, reduceSigned, scaleAngle, halveAngle, negateAngle, type Angle, type DyadicAngle } from '../angle.js';
-import { gateProvenance, GateCode, type LoweredCircuit, type PlacedRegister } from '../circuit.js';
+import { gateProvenance, GateCode, qubitLabel, type LoweredCircuit, type PlacedRegister } from '../circuit.js';
 import { Bdd, BddLimit, FALSE, TRUE, WordOps, WordUnsupported, type Word } from './bdd.js';
 import { compileNode, specBits } from './spec-words.js';
 import type { Condition, Spec } from './spec.js';
@@ -152,7 +152,7 @@ export function symbolicProve(c: LoweredCircuit, goal: SymbolicGoal): SymbolicRe
 	const ops = new WordOps(bdd);
 	const regOf: PlacedRegister[] = [];
 	for (const r of c.registers) for (let i = 0; i < r.size; i++) regOf.push(r);
-	const qname = (q: number) => `${regOf[q].name}[${q - regOf[q].offset}]`;
+	const qname = (q: number) => qubitLabel(c.registers, q);
 	const levelName: string[] = [];
 	for (const [q, l] of order) levelName[l] = qname(q);
 	const lineOf = (g: number) => gateProvenance(c, g).source?.line ?? -1;
