@@ -1,5 +1,4 @@
 import { error, json } from '@sveltejs/kit';
-import { z } from 'zod';
 import { apiRoute, readJson } from '$lib/server/api';
 import { db } from '$lib/server/db';
 import { requireTeamRole } from '$lib/server/guard';
@@ -7,6 +6,8 @@ import { findCircuit, findVersion } from '$lib/server/repositories/circuits';
 import { enqueueCheck, readProgress } from '$lib/server/checks/enqueue';
 import { listCircuitChecks } from '$lib/server/checks/store';
 import { checkView } from '$lib/server/checks/view';
+import { checkRequestSchema } from '$lib/schemas/checks';
+import type { CheckQueuedResponse, CircuitChecksResponse } from '$lib/api/types';
 import type { RequestHandler } from './$types';
 
 const NOT_FOUND = { message: 'No such circuit in this team.', code: 'not_found' };
@@ -18,19 +19,7 @@ export const GET: RequestHandler = apiRoute(async ({ locals, params }) => {
 	if (!circuit) error(404, NOT_FOUND);
 	const rows = await listCircuitChecks(db, circuit.id, 10);
 	const latest = rows[0] ? checkView(rows[0], await readProgress(db, rows[0])) : null;
-	return json({ latest, checks: rows.map((r) => checkView(r, null)) }, { headers: { 'cache-control': 'no-store' } });
-});
-
-// A version to check. The old body that carried a client's verdict (ok, cases, failed, …, still sent
-// by the command line's push) is taken only as "reported by the command line": it never sets the
-// verdict; the server queues its own check of that version instead.
-const requestSchema = z.object({
-	version: z.number().int().min(1).optional(),
-	ok: z.boolean().optional(),
-	method: z.string().max(32).optional(),
-	cases: z.number().int().min(0).optional(),
-	failed: z.number().int().min(0).optional(),
-	exhaustive: z.boolean().optional()
+	return json({ latest, checks: rows.map((r) => checkView(r, null)) } satisfies CircuitChecksResponse, { headers: { 'cache-control': 'no-store' } });
 });
 
 /** POST {version?}: queue a server check of that version (default the latest). 202 with the queued check. */
@@ -38,7 +27,7 @@ export const POST: RequestHandler = apiRoute(async ({ locals, params, request })
 	const access = await requireTeamRole(locals, params.slug, 'check.run');
 	const circuit = await findCircuit(db, access.team.id, params.id);
 	if (!circuit) error(404, NOT_FOUND);
-	const body = await readJson(request, requestSchema);
+	const body = await readJson(request, checkRequestSchema);
 	const version = body.version ?? circuit.latest_version;
 	const v = await findVersion(db, circuit.id, version);
 	if (!v) error(404, { message: `This circuit has no version ${version}.`, code: 'not_found' });
@@ -48,8 +37,8 @@ export const POST: RequestHandler = apiRoute(async ({ locals, params, request })
 	if (!row) error(404, { message: `This circuit has no version ${version}.`, code: 'not_found' });
 	return json(
 		reported
-			? { check: checkView(row, null), reported: { by: 'command line', ok: body.ok, verdictSet: false }, message: 'A client cannot set a verdict: the server queued its own check of this version.' }
-			: { check: checkView(row, null) },
+			? ({ check: checkView(row, null), reported: { by: 'command line', ok: body.ok, verdictSet: false }, message: 'A client cannot set a verdict: the server queued its own check of this version.' } satisfies CheckQueuedResponse)
+			: ({ check: checkView(row, null) } satisfies CheckQueuedResponse),
 		{ status: 202 }
 	);
 });
