@@ -113,21 +113,36 @@ db_stop() {
 	rm -f "$pidf"
 }
 
-# mail_start DIR PORT PIDFILE
+# service_start NAME PORT PIDFILE OUT LOG READY HINT COMMAND...
+# Run COMMAND in the background in its own session (no terminal, stdout and stderr to OUT) and wait
+# until READY (a command line) succeeds; LOG is shown if it never does. Idempotent: a process alive
+# under PIDFILE that is READY is left alone. HINT says how to choose another port when PORT is taken.
+service_start() {
+	local name=$1 port=$2 pidf=$3 out=$4 log=$5 ready=$6 hint=$7; shift 7
+	if [ -f "$pidf" ] && kill -0 "$(cat "$pidf")" 2>/dev/null && $ready >/dev/null 2>&1; then
+		return 0
+	fi
+	if port_in_use "$port"; then
+		die "port $port is taken by another program, so $name cannot listen there. $hint"
+	fi
+	setsid "$@" </dev/null >>"$out" 2>&1 &
+	echo $! >"$pidf"
+	local i
+	for i in $(seq 1 100); do
+		$ready >/dev/null 2>&1 && return 0
+		sleep 0.1
+	done
+	tail -n 20 "$log" >&2 2>/dev/null
+	die "$name did not start on 127.0.0.1:$port (its log is above)"
+}
+
+# mail_start DIR PORT PIDFILE: the mail fake (scripts/mail-fake.ts) writing what it catches to DIR.
 mail_start() {
 	local dir=$1 port=$2 pidf=$3
 	mkdir -p "$dir"
-	if [ -f "$pidf" ] && kill -0 "$(cat "$pidf")" 2>/dev/null; then return 0; fi
-	if port_in_use "$port"; then
-		die "port $port is taken by another program, so the mail fake cannot listen there. Pick another: ORRERY_SMTP_PORT=2626 npm start"
-	fi
-	MAIL_DIR="$dir" SMTP_PORT="$port" setsid node --import tsx scripts/mail-fake.ts \
-		</dev/null >"$dir/../mail-fake.log" 2>&1 &
-	echo $! >"$pidf"
-	local i
-	for i in $(seq 1 100); do port_in_use "$port" && return 0; sleep 0.1; done
-	tail -n 20 "$dir/../mail-fake.log" >&2
-	die "the mail fake did not start on 127.0.0.1:$port (log above)"
+	service_start "the mail fake" "$port" "$pidf" "$dir/../mail-fake.log" "$dir/../mail-fake.log" "port_in_use $port" \
+		"Pick another: ORRERY_SMTP_PORT=$((port + 1)) npm start" \
+		env MAIL_DIR="$dir" SMTP_PORT="$port" node --import tsx scripts/mail-fake.ts
 }
 
 mail_stop() {
@@ -142,24 +157,11 @@ mail_stop() {
 # already answering on that port with this pid file is left alone.
 redis_start() {
 	local dir=$1 port=$2; shift 2
-	local pidf="$dir/redis.pid" log="$dir/redis.log"
 	mkdir -p "$dir"
-	if [ -f "$pidf" ] && kill -0 "$(cat "$pidf")" 2>/dev/null && redis-cli -p "$port" ping >/dev/null 2>&1; then
-		return 0
-	fi
-	if port_in_use "$port"; then
-		die "port $port is taken by another program, so Redis cannot listen there. Stop that program or pick another port: ORRERY_REDIS_PORT=6391 npm start"
-	fi
-	setsid redis-server --port "$port" --bind 127.0.0.1 --dir "$dir" --daemonize no \
-		--pidfile "$pidf" --logfile "$log" --save '' --appendonly yes "$@" </dev/null >/dev/null 2>&1 &
-	echo $! >"$pidf"
-	local i
-	for i in $(seq 1 100); do
-		redis-cli -p "$port" ping >/dev/null 2>&1 && return 0
-		sleep 0.1
-	done
-	tail -n 20 "$log" >&2 2>/dev/null
-	die "Redis did not start on 127.0.0.1:$port (its log is above)"
+	service_start Redis "$port" "$dir/redis.pid" /dev/null "$dir/redis.log" "redis-cli -p $port ping" \
+		"Stop that program or pick another port: ORRERY_REDIS_PORT=$((port + 1)) npm start" \
+		redis-server --port "$port" --bind 127.0.0.1 --dir "$dir" --daemonize no \
+		--pidfile "$dir/redis.pid" --logfile "$dir/redis.log" --save '' --appendonly yes "$@"
 }
 
 redis_stop() {

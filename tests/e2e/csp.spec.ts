@@ -48,6 +48,20 @@ test('pages get a nonce-based policy without unsafe-eval, and each page works un
 	for (const d of ["frame-ancestors 'none'", "object-src 'none'", "base-uri 'self'", "form-action 'self'"]) expect(csp).toContain(d);
 	await hydrated(page);
 	await expectClean(page, w, 'the landing page');
+	// Control: the policy bites and the watch sees it. A string evaluated as code and an inline
+	// script without the nonce are both refused, and both show up as violations and console errors.
+	await page.evaluate(() => {
+		setTimeout('document.documentElement.dataset.evalRan = "yes"', 0);
+		const s = document.createElement('script');
+		s.textContent = 'document.documentElement.dataset.inlineRan = "yes"';
+		document.head.append(s);
+	});
+	await expect.poll(async () => (await w.violations()).length).toBeGreaterThanOrEqual(2);
+	expect((await w.violations()).join('\n')).toMatch(/script-src/);
+	expect(await page.evaluate(() => [document.documentElement.dataset.evalRan, document.documentElement.dataset.inlineRan])).toEqual([undefined, undefined]);
+	await expect.poll(() => w.console.length).toBeGreaterThanOrEqual(2);
+	await page.evaluate(() => ((window as unknown as { __csp: string[] }).__csp = []));
+	w.console.length = 0;
 
 	// Sign-in (a hydrated form posting to this origin).
 	await signInInBrowser(page, demo.engineer.email, demo.engineer.password);

@@ -20,7 +20,9 @@ import { plantedFaultAdder } from '../../src/lib/quantum/templates';
 //
 // Timing thresholds are normally kept out of tests (this machine is shared and noisy); this one is
 // the issue's acceptance criterion, so it is made robust instead: many probes, the MEDIAN must be
-// under 200 ms, and no single probe may take over 2 s (a blocked event loop took 7-87 s before).
+// under 200 ms, nine in ten under 1 s, and none over 5 s (a blocked event loop took 7-87 s before).
+// On a 2-core machine shared with other builds (load average 13) single probes took 1.3-2.2 s
+// while the median stayed at 15-50 ms: a starved process, not a blocked event loop.
 
 const hostile = (name: string) => readFileSync(`tests/fixtures/hostile/${name}`, 'utf8');
 
@@ -137,7 +139,8 @@ describe.skipIf(!haveTestDb)('heavy requests on the built app', () => {
 		const p90 = [...during].sort((a, b) => a - b)[Math.floor(during.length * 0.9)];
 		console.log(`health while heavy requests ran: ${during.length} probes, median ${med.toFixed(1)} ms, p90 ${p90.toFixed(1)} ms, worst ${worst.toFixed(1)} ms`);
 		expect(med).toBeLessThan(200);
-		expect(worst).toBeLessThan(2000);
+		expect(p90).toBeLessThan(1000);
+		expect(worst).toBeLessThan(5000);
 
 		for (const r of rounds) {
 			// The nested-calls document: refused with the JSON path of the call past the limit, three ways.

@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { makeTemplate } from '../../quantum/templates';
 import { lowerCircuit } from '../../quantum/lower';
 import { checkCircuit } from '../../quantum/check/index';
-import { engineName, mergeShards, planShards, rateAndEstimate, type ShardOutcome } from './plan';
+import { engineName, mergeShards, nextChunkSize, planShards, rateAndEstimate, type ShardOutcome } from './plan';
 
 // Shards of a sweep, merged, must equal the core's own single sweep over every input. The circuit
 // is invented test data: a 4-bit Fourier adder with a planted controlled phase of pi from a[0] onto
@@ -70,5 +70,23 @@ describe('rateAndEstimate', () => {
 	it('is inputs per second and the seconds left at that rate', () => {
 		expect(rateAndEstimate(500, 2000, 1000)).toEqual({ inputsPerSecond: 500, etaSeconds: 3 });
 		expect(rateAndEstimate(0, 2000, 1000)).toEqual({ inputsPerSecond: null, etaSeconds: null });
+	});
+});
+
+describe('nextChunkSize', () => {
+	// A check's time limit is looked at between calls into the core; these sizes bound each call.
+	it('aims at the target from the last call\'s pace, within 1 and the maximum', () => {
+		// 16 inputs in 4 ms: 0.25 ms each, so 1000 ms is 4000 inputs.
+		expect(nextChunkSize({ inputs: 16, ms: 4 }, 60_000, 1000, 4096)).toBe(4000);
+		// A fast circuit is held to the maximum.
+		expect(nextChunkSize({ inputs: 16, ms: 0.01 }, 60_000, 1000, 4096)).toBe(4096);
+		// A slow circuit (3 s per input) still moves one input at a time.
+		expect(nextChunkSize({ inputs: 1, ms: 3000 }, 60_000, 1000, 4096)).toBe(1);
+	});
+	it('never plans past the deadline', () => {
+		// 1 ms per input, 250 ms left: 250 inputs, not 1000.
+		expect(nextChunkSize({ inputs: 100, ms: 100 }, 250, 1000, 4096)).toBe(250);
+		// Past the deadline: one input (the caller stops at the check after it).
+		expect(nextChunkSize({ inputs: 100, ms: 100 }, -5, 1000, 4096)).toBe(1);
 	});
 });

@@ -33,6 +33,19 @@ export function planShards(total: number, size: number): { start: number; end: n
 	return out;
 }
 
+/**
+ * Inputs for the next synchronous call into the core during a sweep, from the pace of the last
+ * call: about `targetMs` of work, never more than the time left before the check's deadline, at
+ * least 1 and at most `max`. The time limit is only looked at between calls, so a call's length
+ * is what a check can overrun its limit by: sized this way that is one target's worth (or one
+ * input, for a circuit whose single input takes longer), not `max` inputs of a slow circuit.
+ */
+export function nextChunkSize(last: { inputs: number; ms: number }, remainingMs: number, targetMs: number, max: number): number {
+	const perInput = Math.max(last.ms, 0.001) / Math.max(last.inputs, 1);
+	const budget = Math.min(targetMs, Math.max(remainingMs, 0));
+	return Math.max(1, Math.min(max, Math.floor(budget / perInput)));
+}
+
 export interface MergedSweep {
 	cases: number;
 	failed: number;

@@ -13,7 +13,7 @@ import { parseCircuitDocument } from '../../quantum/schema';
 import { checkCircuit, type CheckOptions, type CheckReport } from '../../quantum/check/index';
 import type { LoweredCircuit } from '../../quantum/circuit';
 import { CHECK_QUEUE, KEY_TTL_SECONDS, redisKeys } from './redis';
-import { addSweepPart, engineName, mergeShards, planShards, type ShardOutcome } from './plan';
+import { addSweepPart, engineName, mergeShards, nextChunkSize, planShards, type ShardOutcome } from './plan';
 import { finishCheck, findCheck, listShards, recordPlan, recordShard, startCheck, type CheckResult, type CheckRow, type Verdict } from './store';
 
 export type CheckJobData = { checkId: string } | { checkId: string; shard: number; start: number; end: number };
@@ -35,8 +35,12 @@ export interface ProcessorDeps {
 	queuePrefix: string;
 }
 
-/** Inputs per synchronous call into the core: between chunks the worker renews its lock, reports progress and reads cancel. */
+/** Most inputs per synchronous call into the core: between chunks the worker renews its lock, reports progress and reads cancel. */
 export const CHUNK_INPUTS = 4096;
+/** Inputs of a sweep's first call; the pace it shows sizes the next ones (nextChunkSize). */
+export const FIRST_CHUNK_INPUTS = 16;
+/** Milliseconds of work one call aims at, so the time limit and cancel are looked at about this often. */
+export const CHUNK_TARGET_MS = 1000;
 /** Seeded sample size when a domain is over the exhaustive cap. */
 export const SAMPLE_INPUTS = 4096;
 
@@ -84,20 +88,25 @@ function deadlineOf(row: CheckRow, deps: ProcessorDeps): number {
 }
 
 /**
- * Sweep inputs [start, end) in chunks of CHUNK_INPUTS. Between chunks: progress to Redis, the
+ * Sweep inputs [start, end) in chunks sized from the pace of the last one (about CHUNK_TARGET_MS
+ * each, at most CHUNK_INPUTS, never past the deadline). Between chunks: progress to Redis, the
  * cancel flag and the time limit. Returns null when cancelled; throws CheckStop past the limit.
  */
 async function sweepRange(deps: ProcessorDeps, row: CheckRow, c: LoweredCircuit, specs: string[], assume: string[], shard: number, start: number, end: number): Promise<ShardOutcome | null> {
 	const out: ShardOutcome = { shard, start, end, cases: 0, failed: 0, worstProbability: 1, failures: [], engines: { ledger: 0, amplitudes: 0 }, phaseReferences: [] };
 	const deadline = deadlineOf(row, deps);
 	const progressKey = redisKeys.progress(row.id);
-	for (let a = start; a < end; a += CHUNK_INPUTS) {
-		const b = Math.min(end, a + CHUNK_INPUTS);
+	let size = FIRST_CHUNK_INPUTS;
+	for (let a = start; a < end; ) {
+		const b = Math.min(end, a + size);
+		const t0 = performance.now();
 		const r = checkCircuit(c, specs, coreOptions({ mode: 'range', start: a, end: b }, false, assume));
+		size = nextChunkSize({ inputs: b - a, ms: performance.now() - t0 }, deadline - Date.now(), CHUNK_TARGET_MS, CHUNK_INPUTS);
 		addSweepPart(out, { ...r, worstProbability: r.worstSuccessProbability, phaseReferences: r.phaseReference ? [r.phaseReference] : [] });
 		await deps.redis.multi().hset(progressKey, String(shard), b - start).expire(progressKey, KEY_TTL_SECONDS).exec();
 		if (await cancelled(deps, row.id)) return null;
 		if (Date.now() > deadline && b < end) throw new CheckStop(`stopped after ${deps.settings.maxSeconds} s, the server's limit for one check; raise ORRERY_CHECK_MAX_SECONDS or narrow the domain with assume`);
+		a = b;
 	}
 	return out;
 }
