@@ -11,10 +11,30 @@ die() { if _tty_colour 2; then printf '\033[31morrery: %s\033[0m\n' "$*" >&2; el
 
 port_in_use() { (exec 3<>"/dev/tcp/127.0.0.1/$1") 2>/dev/null; }
 
+# The first port from $1 that is free and not claimed by another running script. Two test runs
+# that start together used to pick the same port (both saw it free before either bound it): a claim
+# is a directory made with mkdir, which only one process can create; it holds the claiming script's
+# pid ($$, also inside $(…)) and lapses when that process is gone, so no cleanup is needed.
 free_port_from() {
-	local p=$1
-	while port_in_use "$p"; do p=$((p + 1)); done
-	echo "$p"
+	local p=$1 claim owner
+	while :; do
+		claim="${TMPDIR:-/tmp}/orrery-port-$p.claim"
+		if mkdir "$claim" 2>/dev/null; then
+			echo "$$" >"$claim/pid"
+			if ! port_in_use "$p"; then
+				echo "$p"
+				return 0
+			fi
+			rm -rf "$claim"
+		else
+			owner=$(cat "$claim/pid" 2>/dev/null || true)
+			if [ -n "$owner" ] && ! kill -0 "$owner" 2>/dev/null; then
+				rm -rf "$claim" # its script has ended
+				continue
+			fi
+		fi
+		p=$((p + 1))
+	done
 }
 
 # Debian packages the project needs, installed only when missing.
