@@ -51,7 +51,8 @@ const USAGE = `usage: orrery <command> [options]
 Reading a file (every command):
   --register NAME=QUBITS    name a register over the file's qubits, listed from its least-significant
                             bit (OpenQASM 3 index syntax): x=q[0:15], x=q[15:-1:0] (MSB first in the
-                            file), x=q[{3,1,2,0}], x=x; repeatable; unmapped qubits stay in REG_rest
+                            file), x=q[{3,1,2,0}], x=x; repeatable; a register mapped in part must be
+                            mapped whole (name ancillas too: work=q[16:17])
   --exact-decimals on|off   read printed decimals (0.785398) as the exact k/2^m turn they print (default on)
   --param NAME=VALUE        value of an OpenQASM 3 "input angle NAME;" (or int), e.g. theta=pi/8; repeatable
 Registers read little-endian: name[0] is the least-significant bit.`;

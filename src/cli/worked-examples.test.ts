@@ -70,6 +70,10 @@ describe('--register errors name the flag', () => {
 		expect(check('--register', 'a=q[4:-1:0]', '--register', 'b=q[9:-1:4]').err).toMatch(/^--register "b=q\[9:-1:4\]": q\[4\] is already bit 0 of "a"/);
 		expect(check('--register', 'a=r[0:3]').err).toMatch(/^--register "a=r\[0:3\]": the file has no register "r"/);
 		expect(check('--register', 'a').err).toMatch(/^--register "a": expected NAME=QUBITS/);
+		// A map that leaves qubits of q unnamed is refused, naming them (issue 13: no silent REG_rest).
+		expect(check('--register', 'a=q[4:-1:0]', '--register', 'b=q[9:-1:7]').err).toMatch(
+			/^--register \(.*adder5-flat-msb\.qasm\) 2 qubits of q \(q\[5:6\]\) are in no mapped register; name them too, for example work=q\[5:6\]/
+		);
 		expect(check('--exact-decimals', 'maybe').err).toMatch(/^--exact-decimals must be on or off/);
 	});
 });

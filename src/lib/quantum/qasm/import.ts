@@ -87,7 +87,7 @@ export function importQasm(text: string, options: QasmImportOptions = {}): QasmI
 			entries.push({ name: l.name, qubits: `${reg.name}[{${l.qubits.map((q) => q - reg.offset).join(',')}}]` });
 		}
 		try {
-			const m = applyRegisterMap(document, entries);
+			const m = applyRegisterMap(document, entries, { unmapped: 'keep' });
 			document = m.document;
 			notes.push(`let aliases read as registers: ${entries.map((e) => e.name).join(', ')}`, ...m.notes);
 		} catch (e) {

@@ -7,9 +7,12 @@
  * wrote x most-significant bit first.
  *
  * {@link applyRegisterMap} rewrites a document's gate qubit references into the mapped
- * registers. Registers of the file that no entry touches stay as they are; the unmapped qubits of a
- * partly mapped register go to a remainder register `REG_rest` (in their file order). The map is
- * kept in the document (`registerMap`) for display and re-export. Pure; qubit order: index 0 = LSB.
+ * registers. Registers of the file that no entry touches stay as they are; a register that entries
+ * map only in part is refused, naming the qubits left over (the user names them, for example as
+ * `work=q[8:9]`: an ancilla that silently became a register of its own would enter every check as
+ * an input). The map is kept in the document (`registerMap`) for display and re-export.
+ * {@link previewRegisterMap} and {@link reverseRegisterMapEntry} serve the upload form.
+ * Pure; qubit order: index 0 = LSB.
  */
 import type { BodyItem, CircuitDocument, QubitRef, RegisterSpec } from '../circuit.js';
 
@@ -98,9 +101,14 @@ export function resolveRegisterMapEntry(e: RegisterMapEntry, registers: readonly
 /**
  * Rewrite an imported document into the mapped registers (see the module comment). Throws
  * {@link RegisterMapError} (with the entry's position) for unknown registers, out-of-range or
- * repeated indices, qubits in two entries, and names that clash.
+ * repeated indices, qubits in two entries, names that clash, and (unless `unmapped: 'keep'`, which
+ * puts them in `REG_rest`) qubits of a partly mapped register that no entry names.
  */
-export function applyRegisterMap(doc: CircuitDocument, entries: readonly RegisterMapEntry[]): { document: CircuitDocument; notes: string[] } {
+export function applyRegisterMap(
+	doc: CircuitDocument,
+	entries: readonly RegisterMapEntry[],
+	options: { unmapped?: 'refuse' | 'keep' } = {}
+): { document: CircuitDocument; notes: string[] } {
 	if (entries.length === 0) return { document: doc, notes: [] };
 	const regs = doc.registers;
 	const owner = new Map<string, { entry: number; to: QubitRef }>();
@@ -133,12 +141,14 @@ export function applyRegisterMap(doc: CircuitDocument, entries: readonly Registe
 		const left: number[] = [];
 		for (let i = 0; i < r.size; i++) if (!owner.has(`${r.name}[${i}]`)) left.push(i);
 		if (!left.length) continue;
+		if (options.unmapped !== 'keep') throw new RegisterMapError(-1, unmappedMessage(r.name, left, names));
+		// Kept (for OpenQASM 3 `let` aliases, the file's own names): a remainder register REG_rest.
 		let rest = `${r.name}_rest`;
 		for (let k = 2; names.has(rest) || regs.some((x) => x.name === rest && !touched.has(x.name)); k++) rest = `${r.name}_rest${k}`;
 		names.add(rest);
 		left.forEach((i, bit) => owner.set(`${r.name}[${i}]`, { entry: -1, to: { register: rest, index: bit } }));
 		newRegs.push({ name: rest, size: left.length });
-		notes.push(`${left.length} qubit${left.length === 1 ? '' : 's'} of ${r.name} in no mapped register (${compact(r.name, left)}) kept as ${rest}[${left.length}]`);
+		notes.push(`${left.length} qubit${left.length === 1 ? '' : 's'} of ${r.name} in no let alias (${compact(r.name, left)}) kept as ${rest}[${left.length}]`);
 	}
 	const mapRef = (q: QubitRef, where: string): QubitRef => {
 		const o = owner.get(`${q.register}[${q.index}]`);
@@ -177,4 +187,87 @@ function compact(name: string, idx: number[]): string {
 		i = j + 1;
 	}
 	return `${name}[${parts.join(',')}]`;
+}
+
+/** The index set of `indices` as written in an entry: `a:b`, `a:-1:b`, `a:s:b`, `i` or `{i,j,…}`. */
+export function indexSetText(indices: readonly number[]): string {
+	if (indices.length === 1) return `${indices[0]}`;
+	const step = indices[1] - indices[0];
+	const progression = step !== 0 && indices.every((v, k) => k === 0 || v - indices[k - 1] === step);
+	if (!progression) return `{${indices.join(',')}}`;
+	const first = indices[0];
+	const last = indices[indices.length - 1];
+	return step === 1 ? `${first}:${last}` : `${first}:${step}:${last}`;
+}
+
+function unmappedMessage(register: string, left: number[], taken: ReadonlySet<string>): string {
+	let name = 'work';
+	for (let k = 2; taken.has(name); k++) name = `work${k}`;
+	const them = left.length === 1 ? `${register}[${left[0]}] is` : `${left.length} qubits of ${register} (${compact(register, left)}) are`;
+	return `${them} in no mapped register; name ${left.length === 1 ? 'it' : 'them'} too, for example ${name}=${register}[${indexSetText(left)}] for an ancilla or work register`;
+}
+
+/**
+ * The same qubits listed in the opposite order (bit 0 becomes the last): the "reverse bit order"
+ * of the upload form. Throws {@link RegisterMapError} as {@link resolveRegisterMapEntry} does.
+ */
+export function reverseRegisterMapEntry(e: RegisterMapEntry, registers: readonly RegisterSpec[]): RegisterMapEntry {
+	const { source, indices } = resolveRegisterMapEntry(e, registers);
+	return { name: e.name, qubits: `${source}[${indexSetText([...indices].reverse())}]` };
+}
+
+/** One file qubit in the upload form's preview: which register and bit it becomes (null: none yet). */
+export interface RegisterMapPreviewRow {
+	/** `q[3]`, as the file names it. */
+	file: string;
+	register: string | null;
+	bit: number | null;
+}
+
+/**
+ * What a map (entries as typed, blank ones ignored) makes of a file's registers, without
+ * throwing: per file qubit its new register and bit, a message per entry that cannot be used
+ * (same wording as {@link applyRegisterMap}), and the message for qubits left unnamed (null when
+ * none). Qubit order: rows in file order, bits LSB first.
+ */
+export function previewRegisterMap(registers: readonly RegisterSpec[], texts: readonly string[]): { rows: RegisterMapPreviewRow[]; errors: (string | null)[]; unmapped: string | null } {
+	const owner = new Map<string, { register: string; bit: number }>();
+	const errors: (string | null)[] = texts.map(() => null);
+	const names = new Map<string, number>();
+	const touched = new Set<string>();
+	texts.forEach((text, k) => {
+		if (!text.trim()) return;
+		try {
+			const e = parseRegisterMapEntry(text.trim(), k);
+			if (names.has(e.name)) throw new RegisterMapError(k, `"${e.name}=${e.qubits}": register "${e.name}" is mapped twice`);
+			const { source, indices } = resolveRegisterMapEntry(e, registers, k);
+			for (const i of indices) {
+				const prev = owner.get(`${source}[${i}]`);
+				if (prev) throw new RegisterMapError(k, `"${e.name}=${e.qubits}": ${source}[${i}] is already bit ${prev.bit} of "${prev.register}"; registers must not overlap`);
+			}
+			names.set(e.name, k);
+			touched.add(source);
+			indices.forEach((i, bit) => owner.set(`${source}[${i}]`, { register: e.name, bit }));
+		} catch (err) {
+			if (!(err instanceof RegisterMapError)) throw err;
+			errors[k] = err.message;
+		}
+	});
+	const rows: RegisterMapPreviewRow[] = [];
+	let unmapped: string | null = null;
+	for (const r of registers) {
+		const left: number[] = [];
+		for (let i = 0; i < r.size; i++) {
+			const o = owner.get(`${r.name}[${i}]`);
+			if (o) rows.push({ file: `${r.name}[${i}]`, register: o.register, bit: o.bit });
+			else if (touched.has(r.name)) {
+				rows.push({ file: `${r.name}[${i}]`, register: null, bit: null });
+				left.push(i);
+			} else rows.push({ file: `${r.name}[${i}]`, register: r.name, bit: i });
+		}
+		if (left.length && unmapped === null) unmapped = unmappedMessage(r.name, left, new Set(names.keys()));
+		if (!touched.has(r.name) && names.has(r.name) && errors[names.get(r.name)!] === null)
+			errors[names.get(r.name)!] = `register name "${r.name}" is taken by the file's own ${r.name}[${r.size}], which no entry maps; choose another name`;
+	}
+	return { rows, errors, unmapped };
 }

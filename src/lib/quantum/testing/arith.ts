@@ -183,3 +183,25 @@ export function fourierAdderQasm(n: number, rotation: 'cp' | 'crz' = 'cp'): stri
 	}
 	return L.join('\n') + '\n';
 }
+
+/**
+ * The same Fourier adder y ← x + y mod 2^n (Draper 2000, quant-ph/0008033), written on one flat
+ * register `q[2n]` as a transpiler might: x is q[0..n−1] least-significant bit first, y is
+ * q[n..2n−1] **most-significant bit first** (bit i of y is q[2n−1−i]). The register map that
+ * names it is `x=q[0:n−1]`, `y=q[2n−1:−1:n]`.
+ */
+export function flatFourierAdderQasm(n: number): string {
+	const x = (i: number) => `q[${i}]`;
+	const y = (i: number) => `q[${2 * n - 1 - i}]`;
+	const L: string[] = ['OPENQASM 2.0;', 'include "qelib1.inc";', `qreg q[${2 * n}];`];
+	for (let i = n - 1; i >= 0; i--) {
+		L.push(`h ${y(i)};`);
+		for (let k = i - 1; k >= 0; k--) L.push(`cu1(pi/${2 ** (i - k)}) ${y(k)}, ${y(i)};`);
+	}
+	for (let j = 0; j < n; j++) for (let k = 0; k <= j; k++) L.push(`cu1(pi/${2 ** (j - k)}) ${x(k)}, ${y(j)};`);
+	for (let i = 0; i < n; i++) {
+		for (let k = 0; k < i; k++) L.push(`cu1(-pi/${2 ** (i - k)}) ${y(k)}, ${y(i)};`);
+		L.push(`h ${y(i)};`);
+	}
+	return L.join('\n') + '\n';
+}
