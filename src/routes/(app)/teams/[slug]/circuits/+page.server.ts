@@ -5,12 +5,20 @@ import { parseForm, formFailure } from '$lib/server/forms';
 import { can } from '$lib/permissions';
 import { createCircuit, deleteCircuit, findCircuit, findVersion, listCircuits } from '$lib/server/repositories/circuits';
 import { countGates, importUpload } from '$lib/server/heavy';
-import { circuitIdSchema, newCircuitSchema } from '$lib/schemas/circuits';
+import { circuitIdSchema, newCircuitSchema, uploadRegisterMapSchema } from '$lib/schemas/circuits';
+import { applyRegisterMap, RegisterMapError } from '$lib/quantum/qasm/register-map';
 import { makeTemplate } from '$lib/quantum/templates';
 import { routes } from '$lib/routes';
 import { enqueueIfSpecified } from '$lib/server/checks/enqueue';
 import { circuitCheckView } from '$lib/server/checks/view';
 import type { Actions, PageServerLoad } from './$types';
+
+/** Schema issues of the register map as form errors under each field (`register-K`, or `register` for the list). */
+function registerFieldErrors(issues: { path: PropertyKey[]; message: string }[]): Record<string, string[]> {
+	const errors: Record<string, string[]> = {};
+	for (const i of issues) (errors[typeof i.path[0] === 'number' ? `register-${i.path[0]}` : 'register'] ??= []).push(i.message);
+	return errors;
+}
 
 export const load: PageServerLoad = async ({ locals, params, url, depends }) => {
 	depends('app:circuits');
@@ -49,11 +57,27 @@ export const actions: Actions = {
 		const data = await request.formData();
 		const file = data.get('file');
 		if (!(file instanceof File) || file.size === 0) return formFailure(400, 'Choose a file to upload.', {}, 'file');
+		// The register map step: `register` fields as the command line's --register (register-map.ts).
+		const fields = data.getAll('register').map((v) => (typeof v === 'string' ? v : ''));
+		const map = uploadRegisterMapSchema.safeParse(fields);
+		if (!map.success) return fail(400, { errors: registerFieldErrors(map.error.issues), values: {} });
 		// Read in the worker pool: past its time or memory limit the form says so (413/422), the server goes on.
 		const result = await importUpload(file);
 		if (!result.ok) return fail(result.status, { errors: { file: result.errors }, values: {} });
-		const { circuit } = await createCircuit(db, access.team.id, access.user.id, result.document, `imported from ${file.name}`, result.gateCount);
-		await enqueueIfSpecified(db, result.document, { teamId: access.team.id, circuitId: circuit.id, version: 1, userId: access.user.id, reason: 'upload' });
+		let document = result.document;
+		if (map.data.length) {
+			// Relabels qubits only (one pass over a document the pool has already bounded in size).
+			try {
+				document = applyRegisterMap(document, map.data.map((m) => m.entry)).document;
+			} catch (e) {
+				if (!(e instanceof RegisterMapError)) throw e;
+				const field = e.entry >= 0 ? `register-${map.data[e.entry].field}` : 'register';
+				return fail(400, { errors: { [field]: [e.message] }, values: {} });
+			}
+		}
+		const message = `imported from ${file.name}${map.data.length ? ` with registers ${map.data.map((m) => `${m.entry.name}=${m.entry.qubits}`).join(', ')}` : ''}`;
+		const { circuit } = await createCircuit(db, access.team.id, access.user.id, document, message, result.gateCount);
+		await enqueueIfSpecified(db, document, { teamId: access.team.id, circuitId: circuit.id, version: 1, userId: access.user.id, reason: 'upload' });
 		redirect(303, routes.circuit(access.team.slug, circuit.id));
 	},
 
