@@ -64,12 +64,14 @@ export function importQasm(text: string, options: QasmImportOptions = {}): QasmI
 	if (options.recogniseDecompositions ?? true) {
 		const p = recogniseDecompositions(document);
 		decompositions = p.report;
-		if (p.report.regions || p.report.toffolis || p.report.cancelledPairs) {
+		if (p.report.regions || p.report.toffolis || p.report.toffoliPhases || p.report.cancelledPairs) {
 			document = { ...document, body: p.body };
 			origins = p.from.map((i) => r.origins[i]);
 			const parts: string[] = [];
 			if (p.report.regions) parts.push(`${p.report.regions} CNOT region${p.report.regions === 1 ? '' : 's'} read as diagonal phase gates`);
 			if (p.report.toffolis) parts.push(`${p.report.toffolis} Toffoli network${p.report.toffolis === 1 ? '' : 's'} read as ccx`);
+			if (p.report.toffoliPhases)
+				parts.push(`${p.report.toffoliPhases} Toffoli pair${p.report.toffoliPhases === 1 ? '' : 's'} around a phase on an ancilla read as doubly controlled phases (exact; terms on the ancilla vanish while it is |0⟩)`);
 			if (p.report.cancelledPairs) parts.push(`${p.report.cancelledPairs} pair${p.report.cancelledPairs === 1 ? '' : 's'} of opposite phases cancelled`);
 			notes.push(`decomposed gates recognised: ${parts.join(', ')}${p.report.rzAsPhase ? ` (rz read as p: equal up to a global phase)` : ''}`);
 		}

@@ -7,6 +7,7 @@ import { cmath, circuitUnitary, distanceExact, distanceUpToPhase, matMul, type C
 import { importQasm } from './import.js';
 import { lowerCircuit } from '../lower.js';
 import type { GateItem } from '../circuit.js';
+import { checkCircuit } from '../check/index.js';
 
 // ---------------------------------------------------------------------------------------------
 // Gates as mathjs matrices on n qubits (little-endian: qubit q = bit q of the basis index).
@@ -157,5 +158,74 @@ describe('recognised in imported files', () => {
 	it('can be turned off', () => {
 		const text = head2 + 'qreg q[2];\nu1(pi/8) q[0];\nu1(pi/8) q[1];\ncx q[0],q[1];\nu1(-pi/8) q[1];\ncx q[0],q[1];\n';
 		expect(gates(text, { recogniseDecompositions: false })).toHaveLength(5);
+	});
+});
+
+describe('a doubly controlled phase through a clean ancilla (Toffoli · controlled phase · Toffoli)', () => {
+	// Textbook identity (Nielsen & Chuang §4.3: computing a ∧ b into a clean ancilla, using it as a
+	// control, and uncomputing it): n holds n ⊕ ab between the Toffolis, so the phase is
+	// θ·t·(n ⊕ ab) = θ·n·t + θ·a·b·t − 2θ·n·a·b·t for every n (exact; −2·⅛ turn = ¾ turn), which is ccp(θ) on (a, b, t)
+	// when n = 0. Checked here as matrices with mathjs, then through the importer and the checker.
+	it('as matrices: ccx(a,b,n) · cp(θ)(n,t) · ccx(a,b,n) = cp(θ)(n,t) · ccp(θ)(a,b,t) · c³p(−2θ) on every input, and = ccp(θ) on n = 0', () => {
+		const C3Pm = (th: number) => matrix(4, (x) => [[x, bit(x, 0) && bit(x, 1) && bit(x, 2) && bit(x, 3) ? eiθ(th) : one]]);
+		// qubits: a = 0, b = 1, n = 2, t = 3
+		const lhs = circuit(CCXm(4, 0, 1, 2), CPm(4, 2, 3, TH), CCXm(4, 0, 1, 2));
+		expect(distanceExact(lhs, circuit(CPm(4, 2, 3, TH), CCPm(4, 0, 1, 3, TH), C3Pm(-2 * TH)))).toBeLessThan(1e-12);
+		const ccp = CCPm(4, 0, 1, 3, TH);
+		let worst = 0;
+		for (let col = 0; col < 16; col++) if (!bit(col, 2)) for (let row = 0; row < 16; row++) worst = Math.max(worst, cmath.abs(cmath.add(lhs[row][col], cmath.multiply(-1, ccp[row][col]) as Complex) as Complex) as unknown as number);
+		expect(worst).toBeLessThan(1e-12);
+		// … and not on n = 1: the pattern is only a ccp while the ancilla is clean.
+		expect(distanceExact(lhs, ccp)).toBeGreaterThan(0.1);
+	});
+	it('the importer reads it as the ccp and the terms on the ancilla, all at the phase’s line; the Toffolis go', () => {
+		const text = head2 + 'qreg q[4];\nccx q[0],q[1],q[2];\nh q[3];\ncp(pi/4) q[2],q[3];\nccx q[0],q[1],q[2];\n';
+		const r = importQasm(text);
+		expect(sig(r.document.body as GateItem[])).toEqual(['h(q3)', 'cp(q2,q3) 1/2^3 turn', 'mcp(q0,q1,q3) 1/2^3 turn', 'mcp(q0,q1,q2,q3) 3/2^2 turn']);
+		expect((r.document.body as GateItem[]).slice(1).every((g) => g.source?.line === 6)).toBe(true);
+		expect(r.notes.join(' ')).toMatch(/1 Toffoli pair around a phase on an ancilla read as doubly controlled phases/);
+		expect(samePhaseClass(text)).toBeLessThan(1e-12);
+		// A gate that flips the ancilla, or an H on a control, in between: not the pattern, left as written.
+		for (const mid of ['x q[2];\n', 'h q[0];\n'])
+			expect(sig(importQasm(text.replace('h q[3];\n', mid)).document.body as GateItem[]).filter((g) => g.startsWith('ccx'))).toHaveLength(2);
+	});
+
+	// A controlled Fourier adder y ← y + c·x mod 2^n (Draper 2000, quant-ph/0008033, each adding
+	// rotation given a second control c through the ancilla), our own file.
+	const controlledAdder = (n: number, dirty: boolean) => {
+		const L = [head2.trim(), 'qreg c[1];', `qreg x[${n}];`, `qreg y[${n}];`, 'qreg anc[1];'];
+		if (dirty) L.push('x anc[0];');
+		for (let i = n - 1; i >= 0; i--) {
+			L.push(`h y[${i}];`);
+			for (let k = i - 1; k >= 0; k--) L.push(`cp(pi/${2 ** (i - k)}) y[${k}], y[${i}];`);
+		}
+		for (let j = 0; j < n; j++)
+			for (let k = 0; k <= j; k++) L.push(`ccx c[0], x[${k}], anc[0];`, `cp(pi/${2 ** (j - k)}) anc[0], y[${j}];`, `ccx c[0], x[${k}], anc[0];`);
+		for (let i = 0; i < n; i++) {
+			for (let k = 0; k < i; k++) L.push(`cp(-pi/${2 ** (i - k)}) y[${k}], y[${i}];`);
+			L.push(`h y[${i}];`);
+		}
+		if (dirty) L.push('x anc[0];');
+		return L.join('\n') + '\n';
+	};
+	it('a 2-bit controlled adder written so is proved; the exhaustive sweep and the unitary (mathjs) agree', () => {
+		const r = importQasm(controlledAdder(2, false));
+		expect(r.decompositions?.toffoliPhases).toBe(3);
+		expect((r.document.body as GateItem[]).some((g) => g.gate === 'ccx')).toBe(false);
+		const d = { ...r.document, specs: ['y = y + c*x mod 4'] };
+		const rep = checkCircuit(lowerCircuit(d), d.specs, {});
+		expect(rep.exhaustive).toBe(true);
+		expect([rep.ok, rep.failed, rep.proof.status]).toEqual([true, 0, 'proved']);
+		// The rewritten circuit and the file as written agree up to one global phase on every basis state.
+		expect(samePhaseClass(controlledAdder(2, false))).toBeLessThan(1e-9);
+	});
+	it('with the ancilla set to 1 around it, the same pattern is not a ccp: refuted, and the sweep agrees', () => {
+		const r = importQasm(controlledAdder(2, true));
+		const d = { ...r.document, specs: ['y = y + c*x mod 4'] };
+		const rep = checkCircuit(lowerCircuit(d), d.specs, {});
+		expect(rep.exhaustive).toBe(true);
+		expect(rep.failed).toBeGreaterThan(0);
+		expect(rep.proof.status).toBe('refuted');
+		expect(samePhaseClass(controlledAdder(2, true))).toBeLessThan(1e-9);
 	});
 });

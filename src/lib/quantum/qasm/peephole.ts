@@ -32,6 +32,8 @@ export interface PeepholeReport {
 	regions: number;
 	/** Toffoli networks replaced by ccx. */
 	toffolis: number;
+	/** Toffoli pairs around phases on their target (ccx · cp · ccx) read as doubly controlled phases. */
+	toffoliPhases: number;
 	/** Pairs of diagonal gates that cancelled exactly. */
 	cancelledPairs: number;
 	/** rz gates read as p (each changes only the global phase). */
@@ -91,7 +93,7 @@ const isZero = (a: Angle) => a.exact && a.num === 0n;
  */
 export function recogniseDecompositions(doc: CircuitDocument, options: PeepholeOptions = {}): PeepholeResult {
 	const maxRegion = options.maxRegion ?? 512;
-	const report: PeepholeReport = { regions: 0, toffolis: 0, cancelledPairs: 0, rzAsPhase: 0, stoppedAtLimit: false };
+	const report: PeepholeReport = { regions: 0, toffolis: 0, toffoliPhases: 0, cancelledPairs: 0, rzAsPhase: 0, stoppedAtLimit: false };
 	// Qubit ids are flat positions (register offset + index), so sorting them sorts by register, then index.
 	const offsets = new Map<string, number>();
 	const sizes = new Map(doc.registers.map((r) => [r.name, r.size]));
@@ -135,31 +137,41 @@ export function recogniseDecompositions(doc: CircuitDocument, options: PeepholeO
 		report.toffolis++;
 	}
 
+	// 4. Toffoli pairs around phases on their target: ccx(a,b,n) · D · ccx(a,b,n).
+	const pairs = toffoliPhases(gs, removed, refs, maxRegion, report);
+	work += pairs.visited;
+	if (work > maxWork) report.stoppedAtLimit = true;
+	const gs1: G[] = [];
+	const orig: number[] = [];
+	for (let i = 0; i < gs.length; i++) {
+		if (removed[i]) continue;
+		for (const g of pairs.rewrite.get(i) ?? [gs[i]]) {
+			gs1.push(g);
+			orig.push(i);
+		}
+	}
+	const removed1 = new Uint8Array(gs1.length);
+
 	// 1. CNOT regions.
 	const out: { g: G; from: number }[] = [];
-	for (let i = 0; i < gs.length; ) {
-		if (removed[i]) {
-			i++;
-			continue;
-		}
-		if (gs[i].kind === 'cx' && !report.stoppedAtLimit) {
-			const r = tryRegion(gs, removed, i, maxRegion, refs);
+	for (let i = 0; i < gs1.length; ) {
+		if (gs1[i].kind === 'cx' && !report.stoppedAtLimit) {
+			const r = tryRegion(gs1, removed1, i, maxRegion, refs);
 			work += r.visited;
 			if (work > maxWork) report.stoppedAtLimit = true;
 			if (r.ok) {
 				report.regions++;
 				report.rzAsPhase += r.rz;
 				for (let k = i; k <= r.end; k++) {
-					if (removed[k]) continue;
 					const rep = r.rewrite.get(k);
-					if (rep === undefined) out.push({ g: gs[k], from: k });
-					else for (const g of rep) out.push({ g, from: k });
+					if (rep === undefined) out.push({ g: gs1[k], from: orig[k] });
+					else for (const g of rep) out.push({ g, from: orig[k] });
 				}
 				i = r.end + 1;
 				continue;
 			}
 		}
-		out.push({ g: gs[i], from: i });
+		out.push({ g: gs1[i], from: orig[i] });
 		i++;
 	}
 
@@ -351,6 +363,85 @@ function expandProduct(parities: number[][]): Map<number[], bigint> | null {
 	const out = new Map<number[], bigint>();
 	for (const x of acc.values()) if (x.c !== 0n && x.mono.length) out.set(x.mono, x.c);
 	return out;
+}
+
+// ----------------------------------------------------------------------------------------------
+// Rule 4: a Toffoli pair around phases on its target
+
+/**
+ * ccx(a,b,n) · D · ccx(a,b,n), where every gate between the two Toffolis that touches a, b or n is
+ * a diagonal gate on a set S ∋ n without a or b, is diagonal: n holds n ⊕ ab in between, and
+ * θ·∏(S∖n)·(n ⊕ ab) = θ·∏S + θ·∏(S∖n)·ab − 2θ·∏S·ab (exact for 0/1 values). Each such gate
+ * becomes those three monomial phases at its own place; the Toffolis go. With n at 0 the first
+ * and last vanish and what is left is the doubly controlled phase on (a, b, S∖n); with n at 1 the
+ * circuit really does something else, and the kept terms say so to the engines and the prover.
+ */
+function toffoliPhases(gs: G[], removed: Uint8Array, refs: QubitRef[], maxRegion: number, report: PeepholeReport): { rewrite: Map<number, G[]>; visited: number } {
+	const rewrite = new Map<number, G[]>();
+	let visited = 0;
+	const isCcx = (g: G) => g.kind === 'other' && (g.item as GateItem).gate === 'ccx';
+	for (let i = 0; i < gs.length; i++) {
+		if (removed[i] || rewrite.has(i) || !isCcx(gs[i])) continue;
+		const [a, b, n] = gs[i].qs;
+		const inside: number[] = [];
+		let end = -1;
+		for (let k = i + 1; k < gs.length && k <= i + maxRegion; k++) {
+			if (removed[k]) continue;
+			visited++;
+			const g = gs[k];
+			if (g.kind === 'barrier') break;
+			if (!g.qs.includes(a) && !g.qs.includes(b) && !g.qs.includes(n)) continue;
+			if (isCcx(g) && g.qs[2] === n && sameSet(g.qs.slice(0, 2), [a, b])) {
+				end = k;
+				break;
+			}
+			if (g.kind === 'diag' && g.qs.includes(n) && !g.qs.includes(a) && !g.qs.includes(b) && !rewrite.has(k)) {
+				inside.push(k);
+				continue;
+			}
+			break;
+		}
+		if (end < 0 || inside.length === 0) continue;
+		for (const k of inside) {
+			const g = gs[k];
+			const item = g.item as GateItem;
+			const rest = g.qs.filter((q) => q !== n);
+			const target = rest.length ? rest[rest.length - 1] : n;
+			const terms: [number[], Angle][] = [
+				[g.qs, g.angle!],
+				[[...rest, a, b], g.angle!],
+				[[...g.qs, a, b], scaleAngle(g.angle!, -2n)]
+			];
+			const made: G[] = [];
+			let m = 0;
+			for (const [set, angle] of terms) {
+				if (isZero(angle)) continue;
+				const qs = [...set].sort((x, y) => (x === target ? 1 : y === target ? -1 : x - y));
+				const gate = qs.length === 1 ? 'p' : qs.length === 2 ? 'cp' : 'mcp';
+				made.push({
+					item: {
+						id: `${item.id}a${++m}`,
+						type: 'gate',
+						gate,
+						qubits: qs.map((q) => ({ ...refs[q] })),
+						angle: angleString(angle),
+						...(item.source ? { source: item.source } : {}),
+						label: `${gate} from a ${item.gate} between Toffolis onto ${refs[n].register}[${refs[n].index}]`
+					},
+					kind: 'diag',
+					qs,
+					angle,
+					made: true
+				});
+			}
+			if (item.gate === 'rz') report.rzAsPhase++;
+			rewrite.set(k, made);
+		}
+		rewrite.set(i, []);
+		rewrite.set(end, []);
+		report.toffoliPhases++;
+	}
+	return { rewrite, visited };
 }
 
 // ----------------------------------------------------------------------------------------------
