@@ -40,6 +40,7 @@ export class GateEmitter {
 	/** Blocks made for broadcasts (`h q;` over a register stays one call item), by content. */
 	readonly broadcastBlocks: UserBlock[] = [];
 	private readonly broadcastByKey = new Map<string, UserBlock>();
+	private readonly angleTexts = new Map<Num, string>();
 
 	/** `flatToRef[q]` names flat qubit q; the reader appends to it as registers are declared. */
 	constructor(
@@ -60,7 +61,15 @@ export class GateEmitter {
 			const d = o.origin.definitions;
 			item.label = `${o.origin.qasm} → ${d.map((x) => `${x.gate}@${x.line}:${x.column}`).join(' → ')}`.slice(0, 200);
 		}
-		if (angle !== undefined) item.angle = angleText(numToAngle(angle));
+		if (angle !== undefined) {
+			// Exported files repeat a few angles, and the reader hands out the same Num for each.
+			let text = this.angleTexts.get(angle);
+			if (text === undefined) {
+				text = angleText(numToAngle(angle));
+				if (this.angleTexts.size < 10_000) this.angleTexts.set(angle, text);
+			}
+			item.angle = text;
+		}
 		if (matrix) item.matrix = matrix;
 		this.items.push(item);
 		this.origins.push(o.origin);

@@ -298,7 +298,7 @@ describe('malformed files', () => {
 		'28-pow-fraction.qasm': '4:1: pow(0.5) @ h: a non-integer power is supported on phase gates only',
 		'29-const-not-integer.qasm': '2:15: value of int "n" must be an integer',
 		'30-measure-in-gate.qasm': '5:3: "measure" is not allowed inside a gate definition',
-		'31-unclosed-gate.qasm': '3:6: gate half: missing "}" to close the body before the end of the file',
+		'31-unclosed-gate.qasm': '3:13: missing "}" to close the body of gate half before the end of the file',
 		'32-wrong-include-version.qasm': '2:9: "qelib1.inc" belongs to OpenQASM 2; this file declares OPENQASM 3 (include "stdgates.inc")',
 		'33-missing-semicolon-decl.qasm': '3:11: missing ";" after the declaration of "a"; found "h"',
 		'34-ctrl-arity.qasm': '4:13: ctrl(2) @ x takes 3 qubit arguments, got 2',

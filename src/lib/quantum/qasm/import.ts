@@ -11,7 +11,7 @@
  * Angles: radian expressions in the file; rational multiples of π with a power-of-two denominator
  * are kept exact (stored as `"k/2^m turn"`), everything else as a float in turns (`"~0.123"`).
  */
-import { lexQasm, QasmError, type Token } from './lexer.js';
+import { lexQasmStream, QasmError, type TokenStream } from './lexer.js';
 import { recogniseDecompositions, type PeepholeReport } from './peephole.js';
 import { applyRegisterMap, RegisterMapError, type RegisterMapEntry } from './register-map.js';
 import { Reader } from './parser.js';
@@ -36,9 +36,9 @@ export function importQasm(text: string, options: QasmImportOptions = {}): QasmI
 		const column = limits.maxBytes - before.lastIndexOf('\n');
 		throw new QasmError(line, column, `file is too large: ${text.length} characters exceeds the limit of ${limits.maxBytes}; the limit is crossed here`, file);
 	}
-	let tokens: Token[];
+	let tokens: TokenStream;
 	try {
-		tokens = lexQasm(text);
+		tokens = lexQasmStream(text);
 	} catch (e) {
 		if (e instanceof QasmError) throw e.withFile(file);
 		throw e;
@@ -50,7 +50,11 @@ export function importQasm(text: string, options: QasmImportOptions = {}): QasmI
 		r.run();
 	} catch (e) {
 		if (e instanceof QasmError) throw e.file === file ? e : e.withFile(file);
-		if (e instanceof RangeError) throw new QasmError(1, 1, e.message, file);
+		// Statements place their own RangeErrors; anything left is placed at the end of the file read.
+		if (e instanceof RangeError) {
+			const last = tokens.at(tokens.length - 1);
+			throw new QasmError(last.line, last.column, e.message, file);
+		}
 		throw e;
 	}
 	const title = options.title ?? file.replace(/^.*[\\/]/, '').replace(/\.(qasm3?|inc)$/i, '');
@@ -94,7 +98,7 @@ export function importQasm(text: string, options: QasmImportOptions = {}): QasmI
 			notes.push(`let aliases read as registers: ${entries.map((e) => e.name).join(', ')}`, ...m.notes);
 		} catch (e) {
 			if (!(e instanceof RegisterMapError)) throw e;
-			const at = e.entry >= 0 ? r.topLets.find((l) => l.name === entries[e.entry].name)!.tok : { line: 1, column: 1 };
+			const at = e.entry >= 0 ? r.topLets.find((l) => l.name === entries[e.entry].name)!.tok : r.topLets[0].tok;
 			r.warnings.push({ line: at.line, column: at.column, message: `let aliases kept as aliases, not registers: ${e.message}` });
 		}
 	}

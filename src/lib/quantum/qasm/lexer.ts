@@ -42,6 +42,10 @@ for (const p of PUNCT) {
 	PUNCT_BY_FIRST.get(c)!.push(p);
 }
 
+/** Punctuation by char code where the character begins no longer punctuation (`;` `,` `(` …). */
+const SINGLE_PUNCT: (string | undefined)[] = new Array(128).fill(undefined);
+for (const p of PUNCT) if (p.length === 1 && PUNCT_BY_FIRST.get(p.charCodeAt(0))!.length === 1) SINGLE_PUNCT[p.charCodeAt(0)] = p;
+
 // A-Z a-z _ Greek (U+0370–U+03FF) ℇ (U+2107); digits continue an identifier.
 const isIdentStartCode = (c: number) => (c >= 97 && c <= 122) || (c >= 65 && c <= 90) || c === 95 || (c >= 0x370 && c <= 0x3ff) || c === 0x2107;
 const isDigit = (c: number) => c >= 48 && c <= 57;
@@ -49,7 +53,86 @@ const isIdentPartCode = (c: number) => isIdentStartCode(c) || isDigit(c);
 
 /** Split OpenQASM text into tokens, skipping `//` and `/* … *\/` comments; ends with an `eof` token. */
 export function lexQasm(text: string): Token[] {
-	const tokens: Token[] = [];
+	const s = lexQasmStream(text);
+	const out: Token[] = new Array(s.length);
+	for (let i = 0; i < s.length; i++) out[i] = s.at(i);
+	return out;
+}
+
+const KIND_CODE: Record<TokenKind, number> = { ident: 0, int: 1, float: 2, string: 3, punct: 4, eof: 5 };
+const KIND_OF: TokenKind[] = ['ident', 'int', 'float', 'string', 'punct', 'eof'];
+const CACHE = 1024;
+
+/**
+ * The tokens of a text in typed arrays (kind, offsets, line, column): a large file's half a million
+ * tokens cost no objects until the reader looks at them, and those it looks at die young.
+ * {@link TokenStream.at} makes the token object (recent ones are cached, so peeking is cheap).
+ */
+export class TokenStream {
+	length = 0;
+	private kinds: Uint8Array;
+	private starts: Int32Array;
+	private ends: Int32Array;
+	private lines: Int32Array;
+	private cols: Int32Array;
+	/** Token texts that are not the source slice (numbers with `_`, strings, eof). */
+	private readonly texts = new Map<number, string>();
+	private readonly cache: (Token | undefined)[] = new Array(CACHE);
+	private readonly cached = new Int32Array(CACHE).fill(-1);
+
+	constructor(private readonly text: string) {
+		// Exported files run a little under two characters per token: no growth for them.
+		const cap = ((text.length * 0.6) | 0) + 16;
+		this.kinds = new Uint8Array(cap);
+		this.starts = new Int32Array(cap);
+		this.ends = new Int32Array(cap);
+		this.lines = new Int32Array(cap);
+		this.cols = new Int32Array(cap);
+	}
+
+	/** Append a token; `text` only when it is not `source.slice(start, end)`. */
+	push(kind: TokenKind, start: number, end: number, line: number, column: number, text?: string): void {
+		const i = this.length;
+		if (i === this.kinds.length) this.grow();
+		this.kinds[i] = KIND_CODE[kind];
+		this.starts[i] = start;
+		this.ends[i] = end;
+		this.lines[i] = line;
+		this.cols[i] = column;
+		if (text !== undefined) this.texts.set(i, text);
+		this.length = i + 1;
+	}
+
+	private grow(): void {
+		const cap = this.kinds.length * 2;
+		const g = <T extends Uint8Array | Int32Array>(a: T, make: (n: number) => T): T => {
+			const b = make(cap);
+			b.set(a);
+			return b;
+		};
+		this.kinds = g(this.kinds, (n) => new Uint8Array(n));
+		this.starts = g(this.starts, (n) => new Int32Array(n));
+		this.ends = g(this.ends, (n) => new Int32Array(n));
+		this.lines = g(this.lines, (n) => new Int32Array(n));
+		this.cols = g(this.cols, (n) => new Int32Array(n));
+	}
+
+	/** Token `i` (0 ≤ i < length). */
+	at(i: number): Token {
+		const slot = i & (CACHE - 1);
+		if (this.cached[slot] === i) return this.cache[slot]!;
+		const start = this.starts[i];
+		const end = this.ends[i];
+		const t: Token = { kind: KIND_OF[this.kinds[i]], text: this.texts.get(i) ?? this.text.slice(start, end), line: this.lines[i], column: this.cols[i], start, end };
+		this.cache[slot] = t;
+		this.cached[slot] = i;
+		return t;
+	}
+}
+
+/** {@link lexQasm} into a {@link TokenStream}. */
+export function lexQasmStream(text: string): TokenStream {
+	const tokens = new TokenStream(text);
 	let i = 0;
 	let line = 1;
 	let lineStart = 0; // offset of the current line's first character (column = i − lineStart + 1)
@@ -89,7 +172,7 @@ export function lexQasm(text: string): Token[] {
 		if (isIdentStartCode(c)) {
 			let j = i + 1;
 			while (j < n && isIdentPartCode(text.charCodeAt(j))) j++;
-			tokens.push({ kind: 'ident', text: text.slice(i, j), line, column: col, start, end: j });
+			tokens.push('ident', start, j, line, col);
 			i = j;
 			continue;
 		}
@@ -120,10 +203,11 @@ export function lexQasm(text: string): Token[] {
 			}
 			if (j - i > 400) throw new QasmError(line, col, 'number is too long');
 			if (j < n && isIdentStartCode(text.charCodeAt(j))) {
-				throw new QasmError(line, col, `malformed number "${text.slice(i, j + 1)}": expected digits, a decimal point or an exponent`);
+				let k = j;
+				while (k < n && k - i < 40 && isIdentPartCode(text.charCodeAt(k))) k++;
+				throw new QasmError(line, col, `malformed number "${text.slice(i, k)}": expected digits, a decimal point or an exponent`);
 			}
-			const raw = text.slice(i, j);
-			tokens.push({ kind: isFloat ? 'float' : 'int', text: underscore ? raw.replace(/_/g, '') : raw, line, column: col, start, end: j });
+			tokens.push(isFloat ? 'float' : 'int', start, j, line, col, underscore ? text.slice(i, j).replace(/_/g, '') : undefined);
 			i = j;
 			continue;
 		}
@@ -131,23 +215,28 @@ export function lexQasm(text: string): Token[] {
 			let j = i + 1;
 			while (j < n && text.charCodeAt(j) !== c && text.charCodeAt(j) !== 10) j++;
 			if (j >= n || text.charCodeAt(j) !== c) throw new QasmError(line, col, `unterminated string: expected a closing ${text[i]} on the same line`);
-			tokens.push({ kind: 'string', text: text.slice(i + 1, j), line, column: col, start, end: j + 1 });
+			tokens.push('string', start, j + 1, line, col, text.slice(i + 1, j));
 			i = j + 1;
 			continue;
 		}
-		const cands = PUNCT_BY_FIRST.get(c);
-		let p: string | undefined;
-		if (cands) for (const x of cands) if (x.length === 1 || text.startsWith(x, i)) {
-			p = x;
-			break;
+		// Most punctuation is one character that starts no longer one: no search.
+		let p: string | undefined = c < 128 ? SINGLE_PUNCT[c] : undefined;
+		if (p === undefined) {
+			const cands = PUNCT_BY_FIRST.get(c);
+			if (cands)
+				for (const x of cands)
+					if (x.length === 1 || text.startsWith(x, i)) {
+						p = x;
+						break;
+					}
 		}
 		if (p) {
-			tokens.push({ kind: 'punct', text: p, line, column: col, start, end: i + p.length });
+			tokens.push('punct', start, i + p.length, line, col);
 			i += p.length;
 			continue;
 		}
 		throw new QasmError(line, col, `unexpected character "${String.fromCodePoint(text.codePointAt(i)!)}"`);
 	}
-	tokens.push({ kind: 'eof', text: '', line, column: i - lineStart + 1, start: n, end: n });
+	tokens.push('eof', n, n, line, i - lineStart + 1, '');
 	return tokens;
 }

@@ -8,7 +8,7 @@
  * Angles: expressions in radians (`Num`).
  */
 import { CIRCUIT_FORMAT, CIRCUIT_VERSION, type BodyItem, type CircuitDocument, type QubitRef } from '../circuit.js';
-import { lexQasm, QasmError, type Token } from './lexer.js';
+import { lexQasm, QasmError, type Token, type TokenStream } from './lexer.js';
 import { evaluateTokens, exactNum, numToInteger, readPrintedAngle, type Num, type NumScope } from './expr.js';
 import { BudgetExceeded, shortInteger, WorkBudget } from '../budget.js';
 import { BUILTINS, builtinAvailable, type Builtin } from './gates.js';
@@ -44,7 +44,7 @@ export class Reader {
 	private statementTok: Token | null = null;
 
 	constructor(
-		private readonly tokens: Token[],
+		private readonly tokens: TokenStream,
 		private readonly file: string,
 		readonly limits: QasmLimits,
 		defaultVersion: 2 | 3
@@ -69,10 +69,10 @@ export class Reader {
 		if (this.warnings.length < 1000) this.warnings.push({ line: t.line, column: t.column, message: msg });
 	}
 	private peek(k = 0): Token {
-		return this.tokens[Math.min(this.pos + k, this.tokens.length - 1)];
+		return this.tokens.at(Math.min(this.pos + k, this.tokens.length - 1));
 	}
 	private next(): Token {
-		const t = this.tokens[this.pos];
+		const t = this.tokens.at(this.pos);
 		if (this.pos < this.tokens.length - 1) this.pos++;
 		return t;
 	}
@@ -87,7 +87,7 @@ export class Reader {
 		const t = this.peek();
 		if (t.kind === 'punct' && t.text === text) return this.next();
 		if (text === ';') {
-			const prev = this.tokens[this.pos - 1];
+			const prev = this.pos > 0 ? this.tokens.at(this.pos - 1) : undefined;
 			const at = prev ? { line: prev.line, column: prev.column + (prev.end - prev.start) } : t;
 			this.err(at, `missing ";" after ${what}; found ${this.describe(t)}`);
 		}
@@ -623,7 +623,11 @@ export class Reader {
 		let sawMeasure = false;
 		while (!this.isP(';')) {
 			const x = this.next();
-			if (x.kind === 'eof') this.err(t, 'missing ";" at the end of the statement before the end of the file');
+			if (x.kind === 'eof') {
+				// Just after the statement's last token, where the ";" belongs.
+				const last = this.tokens.at(Math.max(0, this.tokens.length - 2));
+				this.err({ line: last.line, column: last.column + (last.end - last.start) }, `missing ";" at the end of the "${t.text}" statement before the end of the file`);
+			}
 			if (x.text === 'measure') sawMeasure = true;
 		}
 		if (mustMeasure && !sawMeasure) this.err(t, `assignment to "${t.text}" is not supported; only measurement results may be assigned`);
@@ -835,13 +839,13 @@ export class Reader {
 			}
 			break;
 		}
-		this.expectP('{', `to open the body of gate ${name}`);
+		const open = this.expectP('{', `to open the body of gate ${name}`);
 		const formals = new Set(qubits);
 		const scopeNames = new Set([...params, ...this.consts.keys()]);
 		const body: GateCall[] = [];
 		while (!this.isP('}')) {
 			const t = this.peek();
-			if (t.kind === 'eof') this.err(nameTok, `gate ${name}: missing "}" to close the body before the end of the file`);
+			if (t.kind === 'eof') this.err(open, `missing "}" to close the body of gate ${name} before the end of the file`);
 			if (t.kind === 'ident' && t.text === 'barrier') {
 				this.next();
 				this.qargList(formals);
@@ -929,14 +933,13 @@ export class Reader {
 		const start = this.emitter.items.length;
 		for (let k = 0; k < width; k++) {
 			const qs = lists.map((l) => (l.length === 1 ? l[0] : l[k]));
-			const seen = new Set<number>();
-			qs.forEach((q, j) => {
-				if (seen.has(q)) {
-					const ref = this.flatToRef[q];
-					this.err(call.qargs[j].tok, `qubit ${ref.register}[${ref.index}] is used twice in one gate call`);
-				}
-				seen.add(q);
-			});
+			// Calls have a few qubits: compare pairs rather than build a set per gate.
+			for (let j = 1; j < qs.length; j++)
+				for (let i = 0; i < j; i++)
+					if (qs[i] === qs[j]) {
+						const ref = this.flatToRef[qs[j]];
+						this.err(call.qargs[j].tok, `qubit ${ref.register}[${ref.index}] is used twice in one gate call`);
+					}
 			const origin: GateOrigin = { qasm: call.name, call: { line: call.nameTok.line, column: (call.mods[0]?.tok ?? call.nameTok).column }, definitions: [] };
 			if (call.mods.length) origin.call.column = call.mods[0].tok.column;
 			const ops = this.expander.expandCall(call, params, qs, origin, this.emitter.gatesMade);

@@ -73,11 +73,15 @@ const MINUS_EIGHTH = dyadic(-1n, 3);
 
 /** Document angle string → angle; fast path for the importer's own `"k/2^m turn"` form. */
 function readAngle(text: string): Angle {
+	const cached = angleCache.get(text);
+	if (cached) return cached;
 	const m = /^(\d+)\/2\^(\d+) turn$/.exec(text);
-	if (m) return dyadic(BigInt(m[1]), Number(m[2]));
-	if (text === '0 turn') return dyadic(0n, 0);
-	return parseAngle(text);
+	const a = m ? dyadic(BigInt(m[1]), Number(m[2])) : text === '0 turn' ? dyadic(0n, 0) : parseAngle(text);
+	if (angleCache.size < 10_000) angleCache.set(text, a);
+	return a;
 }
+/** Parsed angle strings (angles are immutable values; files repeat a few of them). */
+const angleCache = new Map<string, Angle>();
 
 /** Document angle string for an angle in turns (same form as the importer writes). */
 function angleString(a: Angle): string {
@@ -153,7 +157,9 @@ export function recogniseDecompositions(doc: CircuitDocument, options: PeepholeO
 	const removed1 = new Uint8Array(gs1.length);
 
 	// 1. CNOT regions.
-	const out: { g: G; from: number }[] = [];
+	// The rewritten list as two parallel arrays (no object per gate).
+	const outG: G[] = [];
+	const outFrom: number[] = [];
 	for (let i = 0; i < gs1.length; ) {
 		if (gs1[i].kind === 'cx' && !report.stoppedAtLimit) {
 			const r = tryRegion(gs1, removed1, i, maxRegion, refs);
@@ -164,33 +170,41 @@ export function recogniseDecompositions(doc: CircuitDocument, options: PeepholeO
 				report.rzAsPhase += r.rz;
 				for (let k = i; k <= r.end; k++) {
 					const rep = r.rewrite.get(k);
-					if (rep === undefined) out.push({ g: gs1[k], from: orig[k] });
-					else for (const g of rep) out.push({ g, from: orig[k] });
+					if (rep === undefined) {
+						outG.push(gs1[k]);
+						outFrom.push(orig[k]);
+					}
+					else
+						for (const g of rep) {
+							outG.push(g);
+							outFrom.push(orig[k]);
+						}
 				}
 				i = r.end + 1;
 				continue;
 			}
 		}
-		out.push({ g: gs1[i], from: orig[i] });
+		outG.push(gs1[i]);
+		outFrom.push(orig[i]);
 		i++;
 	}
 
 	// 3. Cancel exact pairs: a gate and the next gate touching its qubits (skipping only gates made
 	// from the same source item as either), so a leftover stays next to the line that caused it.
 	// Repeated (a few passes) so that a pair whose neighbours cancel later in the list still meets.
-	const gone = new Uint8Array(out.length);
+	const gone = new Uint8Array(outG.length);
 	for (let pass = 0, changed = true; changed && pass < 6; pass++) {
 		changed = false;
-		for (let i = 0; i < out.length; i++) {
-			const gi = out[i].g;
+		for (let i = 0; i < outG.length; i++) {
+			const gi = outG[i];
 			if (gone[i] || gi.kind !== 'diag' || !gi.angle!.exact) continue;
 			const set = gi.qs;
-			for (let j = i + 1, seen = 0; j < out.length && seen < 256; j++) {
+			for (let j = i + 1, seen = 0; j < outG.length && seen < 256; j++) {
 				if (gone[j]) continue;
-				const gj = out[j].g;
+				const gj = outG[j];
 				seen++;
 				if (gj.kind === 'barrier') break;
-				if (!gj.qs.some((q) => set.includes(q))) continue;
+				if (!overlaps(gj.qs, set)) continue;
 				if (gj.kind === 'diag' && (gi.made || gj.made) && gj.angle!.exact && sameSet(gj.qs, set) && isZero(addAngles(gi.angle!, gj.angle!))) {
 					gone[i] = gone[j] = 1;
 					changed = true;
@@ -199,19 +213,25 @@ export function recogniseDecompositions(doc: CircuitDocument, options: PeepholeO
 					break;
 				}
 				// Siblings (diagonal, made from one source gate) commute with gi and may be stepped over.
-				if (gj.kind === 'diag' && gj.made && (out[j].from === out[i].from || (j + 1 < out.length && out[j + 1].from === out[j].from) || out[j - 1]?.from === out[j].from)) continue;
+				if (gj.kind === 'diag' && gj.made && (outFrom[j] === outFrom[i] || (j + 1 < outG.length && outFrom[j + 1] === outFrom[j]) || (j > 0 && outFrom[j - 1] === outFrom[j]))) continue;
 				break;
 			}
 		}
 	}
 	const body: BodyItem[] = [];
 	const from: number[] = [];
-	out.forEach((x, k) => {
-		if (gone[k]) return;
-		body.push(x.g.item);
-		from.push(x.from);
-	});
+	for (let k = 0; k < outG.length; k++) {
+		if (gone[k]) continue;
+		body.push(outG[k].item);
+		from.push(outFrom[k]);
+	}
 	return { body, from, report };
+}
+
+/** Whether two short qubit lists share a qubit (plain loops: this runs for every pair tried). */
+function overlaps(a: number[], b: number[]): boolean {
+	for (let i = 0; i < a.length; i++) for (let j = 0; j < b.length; j++) if (a[i] === b[j]) return true;
+	return false;
 }
 
 function sameSet(a: number[], b: number[]): boolean {
