@@ -264,11 +264,21 @@ export function mulKeys(a: string, b: string): string {
 	if (a === '') return b;
 	if (b === '') return a;
 	if (a === b) return a;
+	// The provers multiply the same few monomials over and over (a phase polynomial times each
+	// control of each flip): remember recent products.
+	const memo = a < b ? `${a}|${b}` : `${b}|${a}`;
+	const hit = mulMemo.get(memo);
+	if (hit !== undefined) return hit;
 	const s = new Set<number>();
 	for (const x of a.split('.')) s.add(Number(x));
 	for (const x of b.split('.')) s.add(Number(x));
-	return [...s].sort((x, y) => x - y).join('.');
+	const out = [...s].sort((x, y) => x - y).join('.');
+	if (mulMemo.size >= MUL_MEMO_SIZE) mulMemo.clear();
+	mulMemo.set(memo, out);
+	return out;
 }
+const MUL_MEMO_SIZE = 1 << 18;
+const mulMemo = new Map<string, string>();
 
 function polyAddTo(p: IntPoly, key: string, c: bigint): void {
 	const v = (p.get(key) ?? 0n) + c;

@@ -81,7 +81,10 @@ function flipPhaseIntoGlobal(p: Prover, g: number, t: FourierQubit, ctl: ReturnT
 	for (const [key, term] of t.phase) {
 		if (!term.angle.exact) throw new Outside(`gate ${g} flips ${qname(p, target)} whose phase is inexact`, g);
 		const shifted: IntPoly = new Map();
-		for (const [kk, v] of k) shifted.set(mulKeys(kk, key), (shifted.get(mulKeys(kk, key)) ?? 0n) + v);
+		for (const [kk, v] of k) {
+			const m = mulKeys(kk, key);
+			shifted.set(m, (shifted.get(m) ?? 0n) + v);
+		}
 		addGlobal(p, shifted, term.angle, g);
 	}
 }
