@@ -50,6 +50,17 @@ export const config = {
 		/** How long a worker's lock on a job lasts without renewal; a dead worker's job is retried after about this long. */
 		lockMs: Number(read('ORRERY_WORKER_LOCK_MS', '30000'))
 	},
+	/** The worker-thread pool for heavy request work (server/heavy/pool.ts). */
+	heavy: {
+		/** Milliseconds one task may run once a thread has started it (wall clock); then 422. */
+		timeMs: Number(read('ORRERY_HEAVY_TIME_MS', '15000')),
+		/** Old-generation heap of one thread, MiB; past it the thread is stopped and the request gets 413. */
+		memoryMb: Number(read('ORRERY_HEAVY_MEMORY_MB', '512')),
+		/** Threads; 0 = at least 2 (one hostile task never holds up every other), at most 4, cores − 1. */
+		threads: Number(read('ORRERY_HEAVY_THREADS', '0')),
+		/** Path of the thread's bundle, when not the one beside the built server (or built on first use in dev). */
+		workerFile: read('ORRERY_HEAVY_WORKER', '')
+	},
 	/** Serves /bench/* pages for `npm run bench` (never set in production). */
 	benchPages: read('ORRERY_BENCH_PAGES', '0') === '1'
 };

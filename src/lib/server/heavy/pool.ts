@@ -18,19 +18,18 @@ import { error } from '@sveltejs/kit';
 import type { Tasks, TaskName } from './tasks';
 import { STARTED, type TaskReply, type TaskRequest } from './protocol';
 import { onShutdown } from '../shutdown';
+import { config } from '../config';
 
-const envNumber = (name: string, fallback: number) => {
-	const v = Number(process.env[name]);
-	return Number.isFinite(v) && v > 0 ? v : fallback;
-};
+const positive = (v: number, fallback: number) => (Number.isFinite(v) && v > 0 ? v : fallback);
 
+/** The pool's limits (from config; tests lower them). */
 export const heavyLimits = {
 	/** Milliseconds one task may run once a thread has started it. */
-	timeMs: envNumber('ORRERY_HEAVY_TIME_MS', 15_000),
+	timeMs: positive(config.heavy.timeMs, 15_000),
 	/** Old-generation heap of one thread, MiB. */
-	memoryMb: envNumber('ORRERY_HEAVY_MEMORY_MB', 512),
+	memoryMb: positive(config.heavy.memoryMb, 512),
 	/** Threads: at least 2 (one hostile task never holds up every other), at most 4. */
-	threads: envNumber('ORRERY_HEAVY_THREADS', Math.max(2, Math.min(4, availableParallelism() - 1))),
+	threads: positive(config.heavy.threads, Math.max(2, Math.min(4, availableParallelism() - 1))),
 	/** Milliseconds a task may wait for a free thread before the request is told to retry. */
 	queueWaitMs: 20_000,
 	/** Tasks waiting at most; more answer 503 at once. */
@@ -46,7 +45,7 @@ export const HEAVY_WORKER_FILE = 'heavy-worker.js';
  * the sources with esbuild on first use. ORRERY_HEAVY_WORKER overrides both.
  */
 async function workerFile(): Promise<string> {
-	if (process.env.ORRERY_HEAVY_WORKER) return process.env.ORRERY_HEAVY_WORKER;
+	if (config.heavy.workerFile) return config.heavy.workerFile;
 	let dir = dirname(fileURLToPath(import.meta.url));
 	for (let i = 0; i < 4; i++, dir = dirname(dir)) {
 		const f = join(dir, HEAVY_WORKER_FILE);
