@@ -67,7 +67,8 @@ test('pages get a nonce-based policy without unsafe-eval, and each page works un
 	await signInInBrowser(page, demo.engineer.email, demo.engineer.password);
 	await expectClean(page, w, 'sign-in');
 
-	// The workbench: the pixi board draws, stepping moves it, and a snapshot is captured.
+	// The workbench: the pixi board draws, stepping moves it, and a snapshot is captured. (A click
+	// once lost to the list's own refresh: circuits-list-navigation.spec.ts.)
 	await page.goto(`/teams/${SLUG}/circuits`);
 	await hydrated(page);
 	await page.getByRole('link', { name: /fault planted/ }).click();

@@ -56,6 +56,8 @@ export const config = {
 		timeMs: Number(read('ORRERY_HEAVY_TIME_MS', '15000')),
 		/** Old-generation heap of one thread, MiB; past it the thread is stopped and the request gets 413. */
 		memoryMb: Number(read('ORRERY_HEAVY_MEMORY_MB', '512')),
+		/** Milliseconds a task may wait for a free thread; then 503 (try again). */
+		queueMs: Number(read('ORRERY_HEAVY_QUEUE_MS', '60000')),
 		/** Threads; 0 = at least 2 (one hostile task never holds up every other), at most 4, cores − 1. */
 		threads: Number(read('ORRERY_HEAVY_THREADS', '0')),
 		/** Path of the thread's bundle, when not the one beside the built server (or built on first use in dev). */

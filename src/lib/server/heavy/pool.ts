@@ -31,7 +31,7 @@ export const heavyLimits = {
 	/** Threads: at least 2 (one hostile task never holds up every other), at most 4. */
 	threads: positive(config.heavy.threads, Math.max(2, Math.min(4, availableParallelism() - 1))),
 	/** Milliseconds a task may wait for a free thread before the request is told to retry. */
-	queueWaitMs: 20_000,
+	queueWaitMs: positive(config.heavy.queueMs, 60_000),
 	/** Tasks waiting at most; more answer 503 at once. */
 	maxQueue: 64
 };
