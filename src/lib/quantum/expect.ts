@@ -142,117 +142,171 @@ export function evaluateValue(e: ValueExpr, values: (name: string) => bigint | n
  * (null = unknown, e.g. a register in superposition). Steps: step s is the state after s gates.
  */
 export function computeExpectations(c: LoweredCircuit, inputs: Map<string, bigint | null>): ExpectationEvents {
-	const ev = new EventSink();
-	const env = new Map<string, RegState>();
-	const regOfQubit = new Int32Array(c.qubitCount);
-	c.registers.forEach((r, i) => {
-		for (let k = 0; k < r.size; k++) regOfQubit[r.offset + k] = i;
-		const v = inputs.get(r.name);
-		env.set(r.name, { basis: 'computational', layout: 'unswapped', value: v === undefined ? 0n : v === null ? null : mod2(v, r.size) });
-	});
-	const regByName = new Map(c.registers.map((r) => [r.name, r]));
+	const pass = new ExpectationPass(c, inputs);
+	for (const r of c.registers) pass.stateRegister(0, r, 1);
+	pass.processRange(-1, 0, c.gateCount);
+	return pass.ev;
+}
 
-	const stateFromEnv = (step: number, q: number, boundary: number) => {
-		const r = c.registers[regOfQubit[q]];
-		const st = env.get(r.name)!;
-		if (st.value === null) return ev.push(step, q, ExpectKind.unknown, 0, 0n, boundary);
+/**
+ * One walk over the lowered circuit in block order: raw gates are simulated classically while
+ * their registers are known; a library block whose requirements hold gets its reference steps
+ * stated inside (QFT gates, adder rotation units, a modular adder's comparison ancilla) and its
+ * stated effect applied at its end. Qubit order: flat; Fourier values as numerators over 2^level.
+ */
+class ExpectationPass {
+	readonly ev = new EventSink();
+	/** What each register holds now (basis, layout, value or null when unknown). */
+	private readonly env = new Map<string, RegState>();
+	private readonly regOfQubit: Int32Array;
+	private readonly regByName: Map<string, PlacedRegister>;
+	/** Child blocks by parent index (−1 for the top level), in gate order. */
+	private readonly children = new Map<number, BlockInstance[]>();
+	/** Gates whose target bit is stated by meaning (a modular adder's comparison ancilla), not by simulation. */
+	private readonly overrides = new Map<number, { qubit: number; bit: bigint; note: string }>();
+
+	constructor(
+		private readonly c: LoweredCircuit,
+		inputs: Map<string, bigint | null>
+	) {
+		this.regOfQubit = new Int32Array(c.qubitCount);
+		c.registers.forEach((r, i) => {
+			for (let k = 0; k < r.size; k++) this.regOfQubit[r.offset + k] = i;
+			const v = inputs.get(r.name);
+			this.env.set(r.name, { basis: 'computational', layout: 'unswapped', value: v === undefined ? 0n : v === null ? null : mod2(v, r.size) });
+		});
+		this.regByName = new Map(c.registers.map((r) => [r.name, r]));
+		for (const b of c.blocks) {
+			const list = this.children.get(b.parent) ?? [];
+			list.push(b);
+			this.children.set(b.parent, list);
+		}
+	}
+
+	private regOf(q: number): PlacedRegister {
+		return this.c.registers[this.regOfQubit[q]];
+	}
+
+	/** State what qubit q holds at `step` from its register's current state. */
+	private stateFromEnv(step: number, q: number, boundary: number): void {
+		const r = this.regOf(q);
+		const st = this.env.get(r.name)!;
+		if (st.value === null) return this.ev.push(step, q, ExpectKind.unknown, 0, 0n, boundary);
 		const i = q - r.offset;
-		if (st.basis === 'computational') return ev.push(step, q, ExpectKind.classical, Number((st.value >> BigInt(i)) & 1n), 0n, boundary);
+		if (st.basis === 'computational') return this.ev.push(step, q, ExpectKind.classical, Number((st.value >> BigInt(i)) & 1n), 0n, boundary);
 		const m = fourierLevel(st.layout, r.size, i);
-		ev.push(step, q, ExpectKind.fourier, m, mod2(st.value, m), boundary);
-	};
-	const stateRegister = (step: number, r: PlacedRegister, boundary: number) => {
-		for (let i = 0; i < r.size; i++) stateFromEnv(step, r.offset + i, boundary);
-	};
-	for (const r of c.registers) stateRegister(0, r, 1);
+		this.ev.push(step, q, ExpectKind.fourier, m, mod2(st.value, m), boundary);
+	}
 
-	const touched = (g: number, f: (q: number) => void) => {
-		for (let i = c.qubitStart[g]; i < c.qubitStart[g + 1]; i++) f(c.qubitList[i]);
-	};
-	const valueOf = (name: string) => env.get(name)?.value ?? null;
-	const bitOf = (q: number): bigint | null => {
-		const r = c.registers[regOfQubit[q]];
-		const st = env.get(r.name)!;
+	/** State every qubit of r at `step`. */
+	stateRegister(step: number, r: PlacedRegister, boundary: number): void {
+		for (let i = 0; i < r.size; i++) this.stateFromEnv(step, r.offset + i, boundary);
+	}
+
+	/** State what every qubit gate g touches holds at `step` (from the registers' current states). */
+	private stateTouched(g: number, step: number): void {
+		const c = this.c;
+		for (let i = c.qubitStart[g]; i < c.qubitStart[g + 1]; i++) this.stateFromEnv(step, c.qubitList[i], 0);
+	}
+
+	/** Qubit q's bit when its register is known and computational, else null. */
+	private bitOf(q: number): bigint | null {
+		const r = this.regOf(q);
+		const st = this.env.get(r.name)!;
 		if (st.value === null || st.basis !== 'computational') return null;
 		return (st.value >> BigInt(q - r.offset)) & 1n;
-	};
+	}
 
-	/** Gates whose target bit is stated by meaning (a modular adder's comparison ancilla), not by simulation. */
-	const overrides = new Map<number, { qubit: number; bit: bigint; note: string }>();
+	private setBit(q: number, b: bigint): void {
+		const r = this.regOf(q);
+		const st = this.env.get(r.name)!;
+		const m = 1n << BigInt(q - r.offset);
+		st.value = b ? st.value! | m : st.value! & ~m;
+	}
+
+	/** Walk gates [start, end) of block `parent`: its child blocks as blocks, the rest as raw gates. */
+	processRange(parent: number, start: number, end: number): void {
+		let g = start;
+		for (const b of this.children.get(parent) ?? []) {
+			for (; g < b.start; g++) this.rawGate(g);
+			this.processBlock(b);
+			g = b.end;
+		}
+		for (; g < end; g++) this.rawGate(g);
+	}
 
 	/** A gate outside any library block: classical gates on known computational registers stay known. */
-	const rawGate = (g: number) => {
-		const ov = overrides.get(g);
-		if (ov) {
-			overrides.delete(g);
-			const r = c.registers[regOfQubit[ov.qubit]];
-			const st = env.get(r.name)!;
-			if (st.value !== null && st.basis === 'computational') {
-				const m = 1n << BigInt(ov.qubit - r.offset);
-				st.value = ov.bit ? st.value | m : st.value & ~m;
-				touched(g, (q) => stateFromEnv(g + 1, q, 0));
-				ev.notes.set(noteKey(g + 1, ov.qubit), ov.note);
-				return;
-			}
-		}
+	private rawGate(g: number): void {
+		if (this.applyOverride(g)) return;
+		const c = this.c;
 		const k = c.kinds[g];
 		const classical = k === GateCode.x || k === GateCode.cx || k === GateCode.ccx || k === GateCode.mcx || k === GateCode.swap;
 		let ok = classical;
-		touched(g, (q) => {
-			if (bitOf(q) === null) ok = false;
-		});
+		for (let i = c.qubitStart[g]; i < c.qubitStart[g + 1]; i++) if (this.bitOf(c.qubitList[i]) === null) ok = false;
 		if (ok) {
 			const q0 = c.qubitStart[g];
 			const q1 = c.qubitStart[g + 1];
-			const setBit = (q: number, b: bigint) => {
-				const r = c.registers[regOfQubit[q]];
-				const st = env.get(r.name)!;
-				const m = 1n << BigInt(q - r.offset);
-				st.value = b ? st.value! | m : st.value! & ~m;
-			};
 			if (k === GateCode.swap) {
 				const a = c.qubitList[q0];
 				const b = c.qubitList[q0 + 1];
-				const ba = bitOf(a)!;
-				setBit(a, bitOf(b)!);
-				setBit(b, ba);
+				const ba = this.bitOf(a)!;
+				this.setBit(a, this.bitOf(b)!);
+				this.setBit(b, ba);
 			} else {
 				let all = true;
-				for (let i = q0; i < q1 - 1; i++) if (bitOf(c.qubitList[i]) === 0n) all = false;
+				for (let i = q0; i < q1 - 1; i++) if (this.bitOf(c.qubitList[i]) === 0n) all = false;
 				const t = c.qubitList[q1 - 1];
-				if (all) setBit(t, bitOf(t)! ^ 1n);
+				if (all) this.setBit(t, this.bitOf(t)! ^ 1n);
 			}
 		} else {
-			touched(g, (q) => {
-				env.get(c.registers[regOfQubit[q]].name)!.value = null;
-			});
+			for (let i = c.qubitStart[g]; i < c.qubitStart[g + 1]; i++) this.env.get(this.regOf(c.qubitList[i]).name)!.value = null;
 		}
-		touched(g, (q) => stateFromEnv(g + 1, q, 0));
-	};
-
-	const children = new Map<number, BlockInstance[]>();
-	for (const b of c.blocks) {
-		const list = children.get(b.parent) ?? [];
-		list.push(b);
-		children.set(b.parent, list);
+		this.stateTouched(g, g + 1);
 	}
 
-	const processRange = (parent: number, start: number, end: number) => {
-		let g = start;
-		for (const b of children.get(parent) ?? []) {
-			for (; g < b.start; g++) rawGate(g);
-			processBlock(b);
-			g = b.end;
-		}
-		for (; g < end; g++) rawGate(g);
-	};
+	/** A gate whose target bit is stated by meaning: set it (when its register is known) with its note; false when g has none. */
+	private applyOverride(g: number): boolean {
+		const ov = this.overrides.get(g);
+		if (!ov) return false;
+		this.overrides.delete(g);
+		const r = this.regOf(ov.qubit);
+		const st = this.env.get(r.name)!;
+		if (st.value === null || st.basis !== 'computational') return false;
+		const m = 1n << BigInt(ov.qubit - r.offset);
+		st.value = ov.bit ? st.value | m : st.value & ~m;
+		this.stateTouched(g, g + 1);
+		this.ev.notes.set(noteKey(g + 1, ov.qubit), ov.note);
+		return true;
+	}
 
-	const requirementsMet = (b: BlockInstance): boolean => {
+	/** A library block: reference steps inside when its requirements hold (else unknown), then its effect at the end. */
+	private processBlock(b: BlockInstance): void {
+		const spec = b.spec;
+		if (spec.kind === 'call' || spec.kind === 'ccp') {
+			this.processRange(b.index, b.start, b.end);
+			return;
+		}
+		const entry = new Map<string, bigint | null>();
+		for (const [k, v] of this.env) entry.set(k, v.value);
+		const ok = this.requirementsMet(b);
+		if (ok) {
+			if (spec.kind === 'mod-add') this.modAddAncilla(b, entry);
+			if (spec.kind === 'multiply' || spec.kind === 'mod-add' || spec.kind === 'mod-mul' || spec.kind === 'mod-mul-inplace' || spec.kind === 'mod-exp') this.processRange(b.index, b.start, b.end);
+			else if (spec.kind === 'qft' || spec.kind === 'iqft') this.partialsQft(b, spec.kind, this.regByName.get(spec.register)!, entry.get(spec.register)!, spec.swaps);
+			else if (spec.kind === 'add' || spec.kind === 'add-const') this.partialsAdd(b, entry);
+		} else {
+			for (let g = b.start; g < b.end; g++) for (let i = this.c.qubitStart[g]; i < this.c.qubitStart[g + 1]; i++) this.ev.push(g + 1, this.c.qubitList[i], ExpectKind.unknown, 0, 0n, 0);
+		}
+		this.applyEffect(b, entry, ok);
+	}
+
+	/** Whether every register the block requires is known and in the basis (and layout) it needs; a warning when not. */
+	private requirementsMet(b: BlockInstance): boolean {
 		for (const req of b.effect?.requires ?? []) {
-			const st = env.get(req.register)!;
+			const st = this.env.get(req.register)!;
 			if (st.value === null) return false;
 			if (st.basis !== req.basis || (req.basis === 'fourier' && req.layout && st.layout !== req.layout)) {
-				ev.warnings.push({
+				this.ev.warnings.push({
 					block: b.index,
 					message: `${b.label}: expects ${req.register} in the ${req.basis} basis${req.layout ? ` (${req.layout})` : ''}, but it is ${st.basis}${st.basis === 'fourier' ? ` (${st.layout})` : ''}`
 				});
@@ -260,33 +314,34 @@ export function computeExpectations(c: LoweredCircuit, inputs: Map<string, bigin
 			}
 		}
 		return true;
-	};
+	}
 
-	const applyEffect = (b: BlockInstance, entry: Map<string, bigint | null>, ok: boolean) => {
+	/** The block's stated writes, evaluated on the values at its entry (unknown when its requirements failed), stated at its end. */
+	private applyEffect(b: BlockInstance, entry: Map<string, bigint | null>, ok: boolean): void {
 		for (const w of b.effect?.writes ?? []) {
-			const r = regByName.get(w.register)!;
+			const r = this.regByName.get(w.register)!;
 			const v = ok ? evaluateValue(w.value, (n) => entry.get(n) ?? null) : null;
-			env.set(w.register, { basis: w.basis, layout: w.layout ?? 'unswapped', value: v === null ? null : mod2(v, r.size) });
-			stateRegister(b.end, r, 1);
+			this.env.set(w.register, { basis: w.basis, layout: w.layout ?? 'unswapped', value: v === null ? null : mod2(v, r.size) });
+			this.stateRegister(b.end, r, 1);
 			if (v !== null && b.spec.kind === 'add-const' && b.spec.holds && w.register === b.spec.target) {
 				// Two's complement over the register: the construction's values lie in (−2^(m−1), 2^(m−1)).
 				const u = mod2(v, r.size);
 				const signed = u >= 1n << BigInt(r.size - 1) ? u - (1n << BigInt(r.size)) : u;
 				const note = `${b.spec.holds} = ${signed}`;
-				for (let i = 0; i < r.size; i++) ev.notes.set(noteKey(b.end, r.offset + i), note);
+				for (let i = 0; i < r.size; i++) this.ev.notes.set(noteKey(b.end, r.offset + i), note);
 			}
 		}
-	};
+	}
 
 	/** State the comparison ancilla of a modular adder by meaning: [b + a < N] after the copy, 0 after the clear. */
-	const modAddAncilla = (b: BlockInstance, entry: Map<string, bigint | null>) => {
+	private modAddAncilla(b: BlockInstance, entry: Map<string, bigint | null>): void {
 		const spec = b.spec;
 		if (spec.kind !== 'mod-add') return;
 		const bv = entry.get(spec.target);
 		if (bv === null || bv === undefined) return;
 		let on = true;
 		for (const q of spec.controls) {
-			const cb = bitOf(q);
+			const cb = this.bitOf(q);
 			if (cb === null) return;
 			if (cb === 0n) on = false;
 		}
@@ -296,36 +351,18 @@ export function computeExpectations(c: LoweredCircuit, inputs: Map<string, bigin
 		const off = spec.controls.length && !on ? ' (control off, a counts as 0)' : '';
 		if (!spec.inverse) {
 			const holds = bv + ca < N;
-			overrides.set(spec.compareGate, { qubit: spec.ancilla, bit: holds ? 1n : 0n, note: `b + a < N${off}: ${bv} + ${ca} < ${N} ${holds ? 'holds' : 'fails'}` });
-			overrides.set(spec.clearGate, { qubit: spec.ancilla, bit: 0n, note: 'cleared: (b + a) mod N ≥ a' });
+			this.overrides.set(spec.compareGate, { qubit: spec.ancilla, bit: holds ? 1n : 0n, note: `b + a < N${off}: ${bv} + ${ca} < ${N} ${holds ? 'holds' : 'fails'}` });
+			this.overrides.set(spec.clearGate, { qubit: spec.ancilla, bit: 0n, note: 'cleared: (b + a) mod N ≥ a' });
 		} else {
 			const holds = bv >= ca;
-			overrides.set(spec.clearGate, { qubit: spec.ancilla, bit: holds ? 1n : 0n, note: `b − a ≥ 0${off}: ${bv} − ${ca} ≥ 0 ${holds ? 'holds' : 'fails'}` });
-			overrides.set(spec.compareGate, { qubit: spec.ancilla, bit: 0n, note: 'cleared' });
+			this.overrides.set(spec.clearGate, { qubit: spec.ancilla, bit: holds ? 1n : 0n, note: `b − a ≥ 0${off}: ${bv} − ${ca} ≥ 0 ${holds ? 'holds' : 'fails'}` });
+			this.overrides.set(spec.compareGate, { qubit: spec.ancilla, bit: 0n, note: 'cleared' });
 		}
-	};
+	}
 
-	const processBlock = (b: BlockInstance) => {
-		const spec = b.spec;
-		if (spec.kind === 'call' || spec.kind === 'ccp') {
-			processRange(b.index, b.start, b.end);
-			return;
-		}
-		const entry = new Map<string, bigint | null>();
-		for (const [k, v] of env) entry.set(k, v.value);
-		const ok = requirementsMet(b);
-		if (ok) {
-			if (spec.kind === 'mod-add') modAddAncilla(b, entry);
-			if (spec.kind === 'multiply' || spec.kind === 'mod-add' || spec.kind === 'mod-mul' || spec.kind === 'mod-mul-inplace' || spec.kind === 'mod-exp') processRange(b.index, b.start, b.end);
-			else if (spec.kind === 'qft' || spec.kind === 'iqft') partialsQft(b, spec.kind, regByName.get(spec.register)!, entry.get(spec.register)!, spec.swaps);
-			else if (spec.kind === 'add' || spec.kind === 'add-const') partialsAdd(b, entry);
-		} else {
-			for (let g = b.start; g < b.end; g++) touched(g, (q) => ev.push(g + 1, q, ExpectKind.unknown, 0, 0n, 0));
-		}
-		applyEffect(b, entry, ok);
-	};
-
-	const partialsQft = (b: BlockInstance, kind: 'qft' | 'iqft', r: PlacedRegister, x: bigint, swaps: boolean) => {
+	/** Inside a QFT or inverse QFT on r (value x): what each qubit holds after every gate, tracked through swaps. */
+	private partialsQft(b: BlockInstance, kind: 'qft' | 'iqft', r: PlacedRegister, x: bigint, swaps: boolean): void {
+		const c = this.c;
 		// cur: expected content of each qubit of r as (kind, level, num), tracked through swaps.
 		const n = r.size;
 		const curKind = new Uint8Array(n);
@@ -343,7 +380,7 @@ export function computeExpectations(c: LoweredCircuit, inputs: Map<string, bigin
 				curNum[i] = mod2(x, m);
 			}
 		}
-		const emit = (step: number, i: number) => ev.push(step, r.offset + i, curKind[i], curLevel[i], curNum[i], 0);
+		const emit = (step: number, i: number) => this.ev.push(step, r.offset + i, curKind[i], curLevel[i], curNum[i], 0);
 		for (let g = b.start; g < b.end; g++) {
 			const code = c.kinds[g];
 			const j = c.loops[3 * g];
@@ -381,16 +418,18 @@ export function computeExpectations(c: LoweredCircuit, inputs: Map<string, bigin
 			emit(g + 1, j);
 			if (k >= 0) emit(g + 1, k);
 		}
-	};
+	}
 
-	const partialsAdd = (b: BlockInstance, entry: Map<string, bigint | null>) => {
+	/** Inside an adder: after each rotation unit (target qubit j, addend bit k), the target qubit's partial sum; other qubits as their registers say. */
+	private partialsAdd(b: BlockInstance, entry: Map<string, bigint | null>): void {
+		const c = this.c;
 		const spec = b.spec;
 		if (spec.kind !== 'add' && spec.kind !== 'add-const') return;
-		const tgt = regByName.get(spec.target)!;
+		const tgt = this.regByName.get(spec.target)!;
 		const base = entry.get(spec.target)!;
 		let ctl = 1n;
 		for (const q of spec.kind === 'add-const' && spec.controls ? spec.controls : spec.control !== null ? [spec.control] : []) {
-			const cb = bitOf(q);
+			const cb = this.bitOf(q);
 			if (cb === null) return;
 			ctl *= cb;
 		}
@@ -406,16 +445,12 @@ export function computeExpectations(c: LoweredCircuit, inputs: Map<string, bigin
 			const part = spec.kind === 'add' ? mod2(addend, k + 1) : addend;
 			const v = mod2(base + ctl * (part << BigInt(spec.shift)), m);
 			const seen = new Set<number>();
-			for (let h = g; h < e; h++) touched(h, (q) => seen.add(q));
+			for (let h = g; h < e; h++) for (let i = c.qubitStart[h]; i < c.qubitStart[h + 1]; i++) seen.add(c.qubitList[i]);
 			for (const q of seen) {
-				if (q === tgt.offset + j) ev.push(e, q, ExpectKind.fourier, m, v, 0);
-				else stateFromEnv(e, q, 0);
+				if (q === tgt.offset + j) this.ev.push(e, q, ExpectKind.fourier, m, v, 0);
+				else this.stateFromEnv(e, q, 0);
 			}
 			g = e;
 		}
-	};
-
-	processRange(-1, 0, c.gateCount);
-	void valueOf;
-	return ev;
+	}
 }

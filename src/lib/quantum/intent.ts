@@ -110,13 +110,10 @@ export function computeIntentExpectations(
 	const own = findFourierSections(c);
 	const extra = extraSections.filter((x) => !own.some((o) => o.register === x.register && o.start === x.start));
 	const sections = [...own, ...extra].filter((s) => intents.some((i) => i.register === s.register));
-	const regOf = (q: number): PlacedRegister => c.registers.find((r) => q >= r.offset && q < r.offset + r.size)!;
 	for (const s of sections) {
 		const intent = intents.find((i) => i.register === s.register)!;
-		const R = c.registers.find((r) => r.name === s.register)!;
-		const level = (q: number) => (s.levels ? s.levels[q - R.offset] : s.layout === 'swapped' ? R.size - (q - R.offset) : q - R.offset + 1);
-		const inR = (q: number) => q >= R.offset && q < R.offset + R.size;
-		const start = inputs.get(R.name) ?? 0n;
+		const sec = sectionView(c, s, inputs);
+		const R = sec.R;
 		let finalValue: bigint;
 		try {
 			finalValue = modPow2(intent.value(inputs), R.size);
@@ -124,184 +121,236 @@ export function computeIntentExpectations(
 			warnings.push(`the spec for ${R.name} could not be evaluated: ${(e as Error).message}`);
 			continue;
 		}
-
-		// Collect the section's terms; bail out when it is not of the form.
-		const terms: Term[] = [];
-		let problem: string | null = null;
-		const touched = new Set<number>();
-		for (let g = s.start; g < s.end && !problem; g++) {
-			const b = c.blockOf[g];
-			const kind = c.kinds[g];
-			if (b >= 0 && c.blocks[b].spec.kind === 'ccp') {
-				const blk = c.blocks[b];
-				if (g !== blk.start) continue;
-				const spec = blk.spec as Extract<typeof blk.spec, { kind: 'ccp' }>;
-				if (!inR(spec.target) || spec.controls.some(inR)) problem = `${blk.label} does not target ${R.name} from outside it`;
-				else if (!spec.angle.exact) problem = `${blk.label} has an angle that is not a dyadic fraction of a turn`;
-				else terms.push(term([...spec.controls], spec.target, blk.end - 1, spec.angle.num, spec.angle.exp));
-				g = blk.end - 1;
-				continue;
-			}
-			const qs = Array.from(c.qubitList.subarray(c.qubitStart[g], c.qubitStart[g + 1]));
-			const isPhase = kind === GateCode.p || kind === GateCode.cp || kind === GateCode.mcp;
-			if (!isPhase) {
-				if (qs.some(inR)) problem = `gate ${g} (${kindName(kind)}) acts on ${R.name} inside its Fourier section`;
-				for (const q of qs) touched.add(q);
-				continue;
-			}
-			const a = c.angles[c.angleIndex[g]];
-			const inside = qs.filter(inR);
-			if (inside.length === 0) continue;
-			if (inside.length > 1) {
-				problem = `gate ${g} couples two qubits of ${R.name}`;
-				continue;
-			}
-			if (!a.exact) {
-				problem = `gate ${g} has an angle that is not a dyadic fraction of a turn`;
-				continue;
-			}
-			terms.push(term(qs.filter((q) => !inR(q)), inside[0], g, a.num, a.exp));
-		}
-		// Controls must still hold their input bits: nothing before may have flipped them.
-		if (!problem) {
-			const flipped = new Set<number>(touched);
-			for (let g = 0; g < s.start; g++) {
-				const k = c.kinds[g];
-				if (k === GateCode.p || k === GateCode.cp || k === GateCode.mcp || k === GateCode.rz) continue;
-				const e = c.qubitStart[g + 1];
-				for (let i = c.qubitStart[g] + c.controlCounts[g]; i < e; i++) flipped.add(c.qubitList[i]);
-			}
-			const bad = terms.find((t) => t.controls.some((q) => flipped.has(q) || inR(q)));
-			if (bad) problem = `a control of ${termLabel(bad)} does not hold an input bit at that point`;
-		}
+		const found = sectionTerms(sec);
+		const problem = found.problem ?? controlsNotInputs(sec, found.terms, found.touched);
 		if (problem) {
 			warnings.push(`no spec-based angles inside the Fourier section of ${R.name}: ${problem}`);
 			continue;
 		}
-
-		// Group terms into monomials per target qubit and compare with the required coefficients.
-		const bitOf = (q: number): { reg: string; bit: number } => {
-			const r = regOf(q);
-			return { reg: r.name, bit: q - r.offset };
-		};
-		const inputBit = (q: number) => {
-			const { reg, bit } = bitOf(q);
-			return Number(((inputs.get(reg) ?? 0n) >> BigInt(bit)) & 1n);
-		};
-		const groups = new Map<string, Term[]>();
-		for (const t of terms) {
-			const k = `${t.target}|${t.key}`;
-			const list = groups.get(k);
-			if (list) list.push(t);
-			else groups.set(k, [t]);
-		}
-		if (groups.size > MAX_SECTION_MONOMIALS) {
-			warnings.push(`the Fourier section of ${R.name} has more than ${MAX_SECTION_MONOMIALS} terms; only its end is checked`);
-			groups.clear();
-		}
-		// correction[g] per target: required − actual, applied from the monomial's last gate on.
-		const corrections: { at: number; target: number; num: bigint; exp: number }[] = [];
-		const phiCache = new Map<string, bigint>();
-		// φ is evaluated with every register but R cleared, then the monomial's bits set.
-		const base = new Map<string, bigint>();
-		for (const r of c.registers) base.set(r.name, r.name === R.name ? start : 0n);
-		for (const list of groups.values()) {
-			const t0 = list[0];
-			if (t0.controls.length > MAX_MONOMIAL_DEGREE) {
-				warnings.push(`a term with ${t0.controls.length} controls on ${R.name} is too large to check`);
-				continue;
-			}
-			// Only monomials this input switches on change anything now.
-			if (!t0.controls.every((q) => inputBit(q) === 1)) continue;
-			const m = level(t0.target);
-			let required = 0n;
-			const d = t0.controls.length;
-			for (let mask = 0; mask < 1 << d; mask++) {
-				const ck = `${m}|${t0.key}|${mask}`;
-				let phi = phiCache.get(ck);
-				if (phi === undefined) {
-					// Δ with exactly the controls in `mask` set; R keeps its actual start value.
-					const x = new Map(base);
-					for (let i = 0; i < d; i++)
-						if (mask & (1 << i)) {
-							const { reg, bit } = bitOf(t0.controls[i]);
-							x.set(reg, (x.get(reg) ?? 0n) | (1n << BigInt(bit)));
-						}
-					phi = modPow2(intent.value(x) - start, m);
-					phiCache.set(ck, phi);
-				}
-				const sign = (d - popcount(mask)) % 2 === 0 ? 1n : -1n;
-				required += sign * phi;
-			}
-			required = modPow2(required, m); // over 2^m
-			let exp = m;
-			for (const t of list) exp = Math.max(exp, t.exp);
-			let actual = 0n;
-			for (const t of list) actual += scaleTo(t.num, t.exp, exp);
-			const diff = modPow2(scaleTo(required, m, exp) - actual, exp);
-			if (diff !== 0n) corrections.push({ at: list[list.length - 1].at, target: t0.target, num: diff, exp });
-		}
-
-		// Walk the section for this input: expected = actual-so-far + corrections due so far.
-		const qCount = R.size;
-		const E = 64; // common denominator exponent for the walk (angles beyond it are refused above)
-		let maxExp = R.size;
-		for (const t of terms) maxExp = Math.max(maxExp, t.exp);
-		for (const k of corrections) maxExp = Math.max(maxExp, k.exp);
-		const W = Math.max(E, maxExp);
-		const actualNum = new Array<bigint>(qCount);
-		const correctionNum = new Array<bigint>(qCount).fill(0n);
-		for (let i = 0; i < qCount; i++) {
-			const q = R.offset + i;
-			actualNum[i] = scaleTo(modPow2(start, level(q)), level(q), W);
-		}
-		const byGate = new Map<number, Term[]>();
-		for (const t of terms) {
-			const list = byGate.get(t.at);
-			if (list) list.push(t);
-			else byGate.set(t.at, [t]);
-		}
-		const corrAt = new Map<number, typeof corrections>();
-		for (const k of corrections) {
-			const list = corrAt.get(k.at);
-			if (list) list.push(k);
-			else corrAt.set(k.at, [k]);
-		}
-		const reduce = (num: bigint): { num: bigint; lvl: number } => {
-			let n = modPow2(num, W);
-			let l = W;
-			while (l > 0 && (n & 1n) === 0n) {
-				n >>= 1n;
-				l--;
-			}
-			return { num: n, lvl: l };
-		};
-		for (const [g, list] of [...byGate].sort((a, b) => a[0] - b[0])) {
-			for (const t of list) {
-				const i = t.target - R.offset;
-				if (t.controls.every((q) => inputBit(q) === 1)) actualNum[i] += scaleTo(t.num, t.exp, W);
-			}
-			for (const k of corrAt.get(g) ?? []) correctionNum[k.target - R.offset] += scaleTo(k.num, k.exp, W);
-			for (const t of list) {
-				const i = t.target - R.offset;
-				const { num, lvl } = reduce(actualNum[i] + correctionNum[i]);
-				// Express over the qubit's own level when it fits, so the dial's ticks stay meaningful.
-				const m = level(t.target);
-				const at = Math.max(m, lvl);
-				ev.push(g + 1, t.target, ExpectKind.fourier, at, lvl === 0 ? 0n : num << BigInt(at - lvl), 0);
-			}
-		}
+		const corrections = sectionCorrections(sec, intent, found.terms, warnings);
+		walkSection(sec, found.terms, corrections, ev);
 		// The section's end: R holds the intended value in the Fourier basis; after the inverse
 		// QFT, in the computational basis.
-		for (let i = 0; i < qCount; i++) {
+		for (let i = 0; i < R.size; i++) {
 			const q = R.offset + i;
-			const m = level(q);
+			const m = sec.level(q);
 			ev.push(s.end, q, ExpectKind.fourier, m, modPow2(finalValue, m), 1);
 			if (s.after !== null) ev.push(s.after, q, ExpectKind.classical, Number((finalValue >> BigInt(i)) & 1n), 0n, 1);
 		}
 	}
 	sortEvents(ev);
 	return { events: ev, sections, warnings };
+}
+
+/** One section seen from its register R: levels, membership, and the input's bits. */
+interface SectionView {
+	c: LoweredCircuit;
+	s: FourierSection;
+	R: PlacedRegister;
+	inputs: ReadonlyMap<string, bigint>;
+	/** R's start value for this input. */
+	start: bigint;
+	level: (q: number) => number;
+	inR: (q: number) => boolean;
+	/** Register and bit index of a flat qubit. */
+	bitOf: (q: number) => { reg: string; bit: number };
+	/** The input's bit on flat qubit q. */
+	inputBit: (q: number) => number;
+}
+
+function sectionView(c: LoweredCircuit, s: FourierSection, inputs: ReadonlyMap<string, bigint>): SectionView {
+	const R = c.registers.find((r) => r.name === s.register)!;
+	const bitOf = (q: number): { reg: string; bit: number } => {
+		const r = c.registers.find((x) => q >= x.offset && q < x.offset + x.size)!;
+		return { reg: r.name, bit: q - r.offset };
+	};
+	return {
+		c,
+		s,
+		R,
+		inputs,
+		start: inputs.get(R.name) ?? 0n,
+		level: (q) => (s.levels ? s.levels[q - R.offset] : s.layout === 'swapped' ? R.size - (q - R.offset) : q - R.offset + 1),
+		inR: (q) => q >= R.offset && q < R.offset + R.size,
+		bitOf,
+		inputBit: (q) => {
+			const { reg, bit } = bitOf(q);
+			return Number(((inputs.get(reg) ?? 0n) >> BigInt(bit)) & 1n);
+		}
+	};
+}
+
+/** The section's phase terms (controls outside R, target in R), or the reason it is not of that form; `touched` are qubits non-phase gates act on. */
+function sectionTerms(sec: SectionView): { terms: Term[]; problem: string | null; touched: Set<number> } {
+	const { c, s, R, inR } = sec;
+	const terms: Term[] = [];
+	let problem: string | null = null;
+	const touched = new Set<number>();
+	for (let g = s.start; g < s.end && !problem; g++) {
+		const b = c.blockOf[g];
+		const kind = c.kinds[g];
+		if (b >= 0 && c.blocks[b].spec.kind === 'ccp') {
+			const blk = c.blocks[b];
+			if (g !== blk.start) continue;
+			const spec = blk.spec as Extract<typeof blk.spec, { kind: 'ccp' }>;
+			if (!inR(spec.target) || spec.controls.some(inR)) problem = `${blk.label} does not target ${R.name} from outside it`;
+			else if (!spec.angle.exact) problem = `${blk.label} has an angle that is not a dyadic fraction of a turn`;
+			else terms.push(term([...spec.controls], spec.target, blk.end - 1, spec.angle.num, spec.angle.exp));
+			g = blk.end - 1;
+			continue;
+		}
+		const qs = Array.from(c.qubitList.subarray(c.qubitStart[g], c.qubitStart[g + 1]));
+		const isPhase = kind === GateCode.p || kind === GateCode.cp || kind === GateCode.mcp;
+		if (!isPhase) {
+			if (qs.some(inR)) problem = `gate ${g} (${kindName(kind)}) acts on ${R.name} inside its Fourier section`;
+			for (const q of qs) touched.add(q);
+			continue;
+		}
+		const a = c.angles[c.angleIndex[g]];
+		const inside = qs.filter(inR);
+		if (inside.length === 0) continue;
+		if (inside.length > 1) {
+			problem = `gate ${g} couples two qubits of ${R.name}`;
+			continue;
+		}
+		if (!a.exact) {
+			problem = `gate ${g} has an angle that is not a dyadic fraction of a turn`;
+			continue;
+		}
+		terms.push(term(qs.filter((q) => !inR(q)), inside[0], g, a.num, a.exp));
+	}
+	return { terms, problem, touched };
+}
+
+/** Controls must still hold their input bits: nothing before the section (or inside it) may have flipped them. */
+function controlsNotInputs(sec: SectionView, terms: Term[], touched: Set<number>): string | null {
+	const { c, s, inR } = sec;
+	const flipped = new Set<number>(touched);
+	for (let g = 0; g < s.start; g++) {
+		const k = c.kinds[g];
+		if (k === GateCode.p || k === GateCode.cp || k === GateCode.mcp || k === GateCode.rz) continue;
+		const e = c.qubitStart[g + 1];
+		for (let i = c.qubitStart[g] + c.controlCounts[g]; i < e; i++) flipped.add(c.qubitList[i]);
+	}
+	const bad = terms.find((t) => t.controls.some((q) => flipped.has(q) || inR(q)));
+	return bad ? `a control of ${termLabel(bad)} does not hold an input bit at that point` : null;
+}
+
+type Correction = { at: number; target: number; num: bigint; exp: number };
+
+/**
+ * Group terms into monomials per target qubit and compare with the required coefficients (Möbius
+ * inversion of the intent over the monomial's controls): required − actual for each monomial this
+ * input switches on, applied from the monomial's last gate on.
+ */
+function sectionCorrections(sec: SectionView, intent: RegisterIntent, terms: Term[], warnings: string[]): Correction[] {
+	const { c, R, start } = sec;
+	const groups = new Map<string, Term[]>();
+	for (const t of terms) {
+		const k = `${t.target}|${t.key}`;
+		const list = groups.get(k);
+		if (list) list.push(t);
+		else groups.set(k, [t]);
+	}
+	if (groups.size > MAX_SECTION_MONOMIALS) {
+		warnings.push(`the Fourier section of ${R.name} has more than ${MAX_SECTION_MONOMIALS} terms; only its end is checked`);
+		groups.clear();
+	}
+	const corrections: Correction[] = [];
+	const phiCache = new Map<string, bigint>();
+	// φ is evaluated with every register but R cleared, then the monomial's bits set.
+	const base = new Map<string, bigint>();
+	for (const r of c.registers) base.set(r.name, r.name === R.name ? start : 0n);
+	for (const list of groups.values()) {
+		const t0 = list[0];
+		if (t0.controls.length > MAX_MONOMIAL_DEGREE) {
+			warnings.push(`a term with ${t0.controls.length} controls on ${R.name} is too large to check`);
+			continue;
+		}
+		// Only monomials this input switches on change anything now.
+		if (!t0.controls.every((q) => sec.inputBit(q) === 1)) continue;
+		const m = sec.level(t0.target);
+		let required = 0n;
+		const d = t0.controls.length;
+		for (let mask = 0; mask < 1 << d; mask++) {
+			const ck = `${m}|${t0.key}|${mask}`;
+			let phi = phiCache.get(ck);
+			if (phi === undefined) {
+				// Δ with exactly the controls in `mask` set; R keeps its actual start value.
+				const x = new Map(base);
+				for (let i = 0; i < d; i++)
+					if (mask & (1 << i)) {
+						const { reg, bit } = sec.bitOf(t0.controls[i]);
+						x.set(reg, (x.get(reg) ?? 0n) | (1n << BigInt(bit)));
+					}
+				phi = modPow2(intent.value(x) - start, m);
+				phiCache.set(ck, phi);
+			}
+			const sign = (d - popcount(mask)) % 2 === 0 ? 1n : -1n;
+			required += sign * phi;
+		}
+		required = modPow2(required, m); // over 2^m
+		let exp = m;
+		for (const t of list) exp = Math.max(exp, t.exp);
+		let actual = 0n;
+		for (const t of list) actual += scaleTo(t.num, t.exp, exp);
+		const diff = modPow2(scaleTo(required, m, exp) - actual, exp);
+		if (diff !== 0n) corrections.push({ at: list[list.length - 1].at, target: t0.target, num: diff, exp });
+	}
+	return corrections;
+}
+
+/** Walk the section for this input: after each term's gate, the target's expected angle is the actual sum so far plus the corrections due so far. */
+function walkSection(sec: SectionView, terms: Term[], corrections: Correction[], ev: Events): void {
+	const { R, start } = sec;
+	const qCount = R.size;
+	const E = 64; // common denominator exponent for the walk (angles beyond it are refused above)
+	let maxExp = R.size;
+	for (const t of terms) maxExp = Math.max(maxExp, t.exp);
+	for (const k of corrections) maxExp = Math.max(maxExp, k.exp);
+	const W = Math.max(E, maxExp);
+	const actualNum = new Array<bigint>(qCount);
+	const correctionNum = new Array<bigint>(qCount).fill(0n);
+	for (let i = 0; i < qCount; i++) {
+		const q = R.offset + i;
+		actualNum[i] = scaleTo(modPow2(start, sec.level(q)), sec.level(q), W);
+	}
+	const byGate = new Map<number, Term[]>();
+	for (const t of terms) {
+		const list = byGate.get(t.at);
+		if (list) list.push(t);
+		else byGate.set(t.at, [t]);
+	}
+	const corrAt = new Map<number, Correction[]>();
+	for (const k of corrections) {
+		const list = corrAt.get(k.at);
+		if (list) list.push(k);
+		else corrAt.set(k.at, [k]);
+	}
+	const reduce = (num: bigint): { num: bigint; lvl: number } => {
+		let n = modPow2(num, W);
+		let l = W;
+		while (l > 0 && (n & 1n) === 0n) {
+			n >>= 1n;
+			l--;
+		}
+		return { num: n, lvl: l };
+	};
+	for (const [g, list] of [...byGate].sort((a, b) => a[0] - b[0])) {
+		for (const t of list) {
+			const i = t.target - R.offset;
+			if (t.controls.every((q) => sec.inputBit(q) === 1)) actualNum[i] += scaleTo(t.num, t.exp, W);
+		}
+		for (const k of corrAt.get(g) ?? []) correctionNum[k.target - R.offset] += scaleTo(k.num, k.exp, W);
+		for (const t of list) {
+			const i = t.target - R.offset;
+			const { num, lvl } = reduce(actualNum[i] + correctionNum[i]);
+			// Express over the qubit's own level when it fits, so the dial's ticks stay meaningful.
+			const m = sec.level(t.target);
+			const at = Math.max(m, lvl);
+			ev.push(g + 1, t.target, ExpectKind.fourier, at, lvl === 0 ? 0n : num << BigInt(at - lvl), 0);
+		}
+	}
 }
 
 function term(controls: number[], target: number, at: number, num: bigint, exp: number): Term {
