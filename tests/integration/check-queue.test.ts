@@ -1,6 +1,6 @@
 import { spawn, type ChildProcess } from 'node:child_process';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
-import { Queue } from 'bullmq';
+import { Queue, Worker } from 'bullmq';
 import { Redis } from 'ioredis';
 import type { Knex } from 'knex';
 import { haveTestDb, openTestDb } from './test-db';
@@ -137,6 +137,23 @@ describe.skipIf(!haveTestDb)('server checks on BullMQ: sharded sweeps, a killed 
 		expect(after.status).toBe('error');
 		expect(after.message).toContain('could not be queued');
 		await dead.close().catch(() => undefined);
+	});
+
+	it('a requested check is taken before the backfill queued ahead of it (backfill jobs carry a BullMQ priority, requested ones none)', async () => {
+		// A queue of its own with one in-test worker, so the test's real workers never see these jobs.
+		const probe = new Queue('priority-probe', { connection: { url: process.env.ORRERY_REDIS_URL, maxRetriesPerRequest: null }, prefix: PREFIX });
+		const circuitId = await newCircuit(makeTemplate('adder', 'priority adder', 3));
+		const backfill = (await enqueue.enqueueCheck(db, { teamId, circuitId, version: 1, userId: null, reason: 'seed' }, probe))!;
+		const requested = (await enqueue.enqueueCheck(db, { teamId, circuitId, version: 1, userId, reason: 'request' }, probe))!;
+		expect((await probe.getJob(`${backfill.id}-plan`))!.opts.priority).toBeGreaterThan(0);
+		expect((await probe.getJob(`${requested.id}-plan`))!.opts.priority ?? 0).toBe(0);
+		const order: string[] = [];
+		const worker = new Worker('priority-probe', async (job) => void order.push(job.data.checkId), { connection: { url: process.env.ORRERY_REDIS_URL, maxRetriesPerRequest: null }, prefix: PREFIX, concurrency: 1 });
+		await waitFor('both probe jobs', async () => order.length === 2, 30_000);
+		await worker.close();
+		await probe.obliterate({ force: true });
+		await probe.close();
+		expect(order).toEqual([requested.id, backfill.id]);
 	});
 
 	it('two worker processes split a 2^20-input sweep into shards and merge it to the single-process result', async () => {

@@ -7,6 +7,7 @@ import type { Redis } from 'ioredis';
 import { config } from '../config';
 import { CHECK_QUEUE, closeSharedWebRedis, KEY_TTL_SECONDS, redisKeys, sharedWebRedis, withTimeout } from './redis';
 import { cancelCheck, countShards, createCheck, finishCheck, isFinished, type CheckReason, type CheckRow } from './store';
+import { jobPriority } from './plan';
 import { rateAndEstimate } from './plan';
 
 let shared: { redis: Redis; queue: Queue } | null = null;
@@ -40,7 +41,7 @@ export async function enqueueCheck(
 	const row = await createCheck(db, p);
 	if (!row) return null;
 	try {
-		await withTimeout(queue.add('plan', { checkId: row.id }, { jobId: `${row.id}-plan`, attempts: 3, backoff: { type: 'exponential', delay: 1000 }, removeOnComplete: 1000, removeOnFail: 1000 }), ENQUEUE_TIMEOUT_MS, 'queueing the check');
+		await withTimeout(queue.add('plan', { checkId: row.id }, { jobId: `${row.id}-plan`, ...jobPriority(p.reason), attempts: 3, backoff: { type: 'exponential', delay: 1000 }, removeOnComplete: 1000, removeOnFail: 1000 }), ENQUEUE_TIMEOUT_MS, 'queueing the check');
 	} catch (e) {
 		console.error(`check ${row.id}: ${(e as Error).message}`);
 		await finishCheck(db, row.id, {

@@ -1,6 +1,7 @@
 // Pure parts of a server check: how a sweep is cut into shards and how shard results merge into
 // one verdict. No database, Redis or BullMQ here, so the unit tests cover them directly.
 import type { SweepCase } from '../../quantum/check/index';
+import type { CheckReason } from './store';
 
 /** One shard's outcome, as stored in check_shards (keyed by check and shard index). */
 export interface ShardOutcome {
@@ -102,4 +103,15 @@ export function rateAndEstimate(done: number, total: number, elapsedMs: number):
 	if (elapsedMs <= 0 || done <= 0) return { inputsPerSecond: null, etaSeconds: null };
 	const rate = (done * 1000) / elapsedMs;
 	return { inputsPerSecond: Math.round(rate), etaSeconds: done >= total ? 0 : Math.ceil((total - done) / rate) };
+}
+
+/**
+ * BullMQ priority of a check's jobs (plan, shards, merge). A job with no priority is taken before
+ * every prioritized one (BullMQ guide, "Prioritized"), so what a person asked for (a save, an
+ * upload, a push, "check on the server") runs first and the start-up backfill of unchecked
+ * versions ('seed') waits behind it instead of sharing its turn.
+ */
+export const BACKFILL_PRIORITY = 100;
+export function jobPriority(reason: CheckReason): { priority?: number } {
+	return reason === 'seed' ? { priority: BACKFILL_PRIORITY } : {};
 }

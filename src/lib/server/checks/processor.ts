@@ -13,7 +13,7 @@ import { parseCircuitDocument } from '../../quantum/schema';
 import { checkCircuit, type CheckOptions, type CheckReport } from '../../quantum/check/index';
 import type { LoweredCircuit } from '../../quantum/circuit';
 import { CHECK_QUEUE, KEY_TTL_SECONDS, redisKeys } from './redis';
-import { addSweepPart, engineName, mergeShards, nextChunkSize, planShards, type ShardOutcome } from './plan';
+import { addSweepPart, engineName, jobPriority, mergeShards, nextChunkSize, planShards, type ShardOutcome } from './plan';
 import { finishCheck, findCheck, listShards, recordPlan, recordShard, startCheck, type CheckResult, type CheckRow, type Verdict } from './store';
 
 export type CheckJobData = { checkId: string } | { checkId: string; shard: number; start: number; end: number };
@@ -212,12 +212,12 @@ async function plan(job: Job<CheckJobData>, token: string | undefined, deps: Pro
 			name: 'merge',
 			queueName: CHECK_QUEUE,
 			data: { checkId },
-			opts: { jobId: `${checkId}-merge`, attempts: 3, backoff: { type: 'exponential', delay: 1000 }, removeOnComplete: 1000, removeOnFail: 1000 },
+			opts: { jobId: `${checkId}-merge`, ...jobPriority(row.reason), attempts: 3, backoff: { type: 'exponential', delay: 1000 }, removeOnComplete: 1000, removeOnFail: 1000 },
 			children: shards.map((r, i) => ({
 				name: 'shard',
 				queueName: CHECK_QUEUE,
 				data: { checkId, shard: i, start: r.start, end: r.end },
-				opts: { jobId: `${checkId}-shard-${i}`, attempts: 3, backoff: { type: 'exponential', delay: 1000 }, failParentOnFailure: true, removeOnComplete: 1000, removeOnFail: 1000 }
+				opts: { jobId: `${checkId}-shard-${i}`, ...jobPriority(row.reason), attempts: 3, backoff: { type: 'exponential', delay: 1000 }, failParentOnFailure: true, removeOnComplete: 1000, removeOnFail: 1000 }
 			}))
 		});
 		return { shards: shards.length };
