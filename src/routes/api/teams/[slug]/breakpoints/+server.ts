@@ -5,6 +5,7 @@ import { requireTeamRole } from '$lib/server/guard';
 import { findCircuit, findVersion } from '$lib/server/repositories/circuits';
 import { insertBreakpoint, listBreakpoints } from '$lib/server/repositories/breakpoints';
 import { createBreakpointSchema } from '$lib/schemas/debugging';
+import type { BreakpointCreatedResponse, BreakpointListResponse } from '$lib/api/types';
 import type { RequestHandler } from './$types';
 
 async function versionOf(teamId: string, circuitId: string, version: number) {
@@ -21,7 +22,7 @@ export const GET: RequestHandler = apiRoute(async ({ locals, params, url }) => {
 	const version = Number(url.searchParams.get('version'));
 	if (!/^[a-z2-7]{24}$/.test(circuitId) || !Number.isInteger(version) || version < 1 || version > 999_999_999) error(400, { message: 'Give ?circuit={id}&version={n}.', code: 'bad_request' });
 	const v = await versionOf(team.id, circuitId, version);
-	return json({ breakpoints: await listBreakpoints(db, team.id, v.id) });
+	return json({ breakpoints: await listBreakpoints(db, team.id, v.id) } satisfies BreakpointListResponse);
 });
 
 export const POST: RequestHandler = apiRoute(async ({ locals, params, request }) => {
@@ -30,5 +31,5 @@ export const POST: RequestHandler = apiRoute(async ({ locals, params, request })
 	const v = await versionOf(team.id, body.circuitId, body.version);
 	const id = await insertBreakpoint(db, { teamId: team.id, circuitId: body.circuitId, versionId: v.id, authorId: user.id, spec: body.breakpoint });
 	const saved = (await listBreakpoints(db, team.id, v.id)).find((b) => b.id === id)!;
-	return json({ breakpoint: saved }, { status: 201 });
+	return json({ breakpoint: saved } satisfies BreakpointCreatedResponse, { status: 201 });
 });

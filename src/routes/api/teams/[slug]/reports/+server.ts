@@ -4,6 +4,7 @@ import { requireTeamRole } from '$lib/server/guard';
 import { openReport, readReportRequest } from '$lib/server/debugging';
 import { reportListPage } from '$lib/server/lists';
 import { routes } from '$lib/routes';
+import type { ReportCreatedResponse } from '$lib/api/types';
 import type { RequestHandler } from './$types';
 
 /** GET ?status=&severity=&assignee=&circuit=&sort=&page=&perPage= (the reports page loads the same). */
@@ -17,5 +18,5 @@ export const POST: RequestHandler = apiRoute(async ({ locals, params, request })
 	const access = await requireTeamRole(locals, params.slug, 'report.create');
 	const { input, snapshot } = await readReportRequest(request);
 	const { id, mailed } = await openReport(access, input, snapshot);
-	return json({ id, mailed, links: { page: routes.report(access.team.slug, id), replay: routes.replay(access.team.slug, input.traceId, input.step, id) } }, { status: 201 });
+	return json({ id, mailed, links: { page: routes.report(access.team.slug, id), replay: routes.replay(access.team.slug, input.traceId, input.step, id) } } satisfies ReportCreatedResponse, { status: 201 });
 });

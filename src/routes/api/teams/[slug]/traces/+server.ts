@@ -5,6 +5,7 @@ import { saveTrace } from '$lib/server/debugging';
 import { traceListPage } from '$lib/server/lists';
 import { createTraceSchema } from '$lib/schemas/debugging';
 import { routes } from '$lib/routes';
+import type { TraceCreatedResponse } from '$lib/api/types';
 import type { RequestHandler } from './$types';
 
 /** GET ?circuit=&author=&diverged=yes|no&from=YYYY-MM-DD&to=YYYY-MM-DD&sort=&page=&perPage= (the traces page loads the same). */
@@ -25,7 +26,7 @@ export const POST: RequestHandler = apiRoute(async ({ locals, params, request })
 			firstDivergence: saved.firstDivergence,
 			lastStep: saved.lastStep,
 			links: { replay: routes.replay(access.team.slug, saved.id), api: routes.api.trace(access.team.slug, saved.id), circuit: routes.circuit(access.team.slug, saved.circuitId) }
-		},
+		} satisfies TraceCreatedResponse,
 		{ status: 201 }
 	);
 });

@@ -4,6 +4,7 @@ import { db } from '$lib/server/db';
 import { requireTeamRole } from '$lib/server/guard';
 import { annotateBreakpoint, deleteBreakpoint, StaleRevisionError } from '$lib/server/repositories/breakpoints';
 import { annotateSchema } from '$lib/schemas/debugging';
+import type { BreakpointAnnotatedResponse } from '$lib/api/types';
 import type { RequestHandler } from './$types';
 
 const NOT_FOUND = { message: 'No such breakpoint in this team.', code: 'not_found' };
@@ -15,7 +16,7 @@ export const PATCH: RequestHandler = apiRoute(async ({ locals, params, request }
 	try {
 		const next = await annotateBreakpoint(db, team.id, params.id, user.id, note, revision);
 		if (!next) error(404, NOT_FOUND);
-		return json({ id: params.id, revision: next });
+		return json({ id: params.id, revision: next } satisfies BreakpointAnnotatedResponse);
 	} catch (e) {
 		if (e instanceof StaleRevisionError) error(409, { message: e.message, code: 'conflict' });
 		throw e;
