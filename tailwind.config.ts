@@ -9,9 +9,9 @@ export default {
 		extend: {
 			colors: {
 				paper: { DEFAULT: '#f6f1e7', deep: '#ece4d4', edge: '#d9cfbb' },
-				ink: { DEFAULT: '#1d2330', soft: '#3a4254', muted: '#6b7284', faint: '#9aa0ad' },
+				ink: { DEFAULT: '#1d2330', soft: '#3a4254', muted: '#575d6e', faint: '#6c7283' },
 				verdigris: { DEFAULT: '#2f7d6d', light: '#cfe6df', dark: '#1f5a4e' },
-				copper: { DEFAULT: '#b8652f', light: '#f1dccb', dark: '#8a4720' },
+				copper: { DEFAULT: '#a3531f', light: '#f1dccb', dark: '#8a4720' },
 				vermilion: { DEFAULT: '#c2362b', light: '#f6d6d2', dark: '#8f231b' },
 				slateblue: { DEFAULT: '#46558c', light: '#dde1f0' },
 				night: { DEFAULT: '#151a24', panel: '#1f2533', line: '#2d3546' }

@@ -61,16 +61,16 @@ test('engineer reports the planted fault with a snapshot; the reviewer replays i
 	await expect(eng.getByTestId('position')).toContainText('c[0], a[1] → b[3]');
 	await expect(eng.getByTestId('step-readout')).toHaveText(/step 13 \/ 30/);
 
-	// A breakpoint on the faulty rotation (gate #12, the gate just run), with a markdown note.
+	// A breakpoint on the faulty rotation (stop at step 12, before the gate of step 13), with a markdown note.
 	await eng.getByRole('tab', { name: 'Breakpoints' }).click();
 	await eng.getByLabel('Note').fill('The **rotation** c·a[1] → b[3] turns pi/8; it should be pi/4.');
 	await eng.getByRole('button', { name: 'add breakpoint' }).click();
-	await expect(eng.getByTestId('breakpoints')).toContainText('before gate #12');
+	await expect(eng.getByTestId('breakpoints')).toContainText('at step 12, before the gate of step 13');
 
 	// Share tab: save it for the team, capture the frame, open the report.
 	await eng.getByRole('tab', { name: 'Share' }).click();
 	await eng.getByTestId('save-breakpoint').click();
-	const saved = eng.getByTestId('share-panel').getByTestId('saved-breakpoint').filter({ hasText: 'before gate #12' }).last();
+	const saved = eng.getByTestId('share-panel').getByTestId('saved-breakpoint').filter({ hasText: 'at step 12, before the gate of step 13' }).last();
 	await expect(saved.getByTestId('breakpoint-note').locator('strong')).toHaveText('rotation');
 	await expect(saved).toContainText('at this step');
 	await eng.getByTestId('capture-frame').click();

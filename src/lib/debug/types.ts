@@ -32,7 +32,7 @@ export function describeBreakpoint(spec: SavedBreakpointView['spec'], qubitLabel
 	const s = spec as unknown as Record<string, never>;
 	switch (spec.kind) {
 		case 'gate':
-			return `before gate #${s.gate}`;
+			return `at step ${s.gate}, before the gate of step ${s.gate + 1}`;
 		case 'block':
 			return `${s.at} of block ${s.itemId}`;
 		case 'divergence':

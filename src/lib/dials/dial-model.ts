@@ -79,7 +79,7 @@ export interface DialLayout {
 	height: number;
 }
 
-export function layoutDials(groups: DialGroup[], width: number, cell = 92, header = 26): DialLayout {
+export function layoutDials(groups: DialGroup[], width: number, cell = 132, header = 28): DialLayout {
 	const perRow = Math.max(1, Math.floor((width - 16) / cell));
 	const positions: DialLayout['positions'] = [];
 	const headers: DialLayout['headers'] = [];
@@ -92,7 +92,7 @@ export function layoutDials(groups: DialGroup[], width: number, cell = 92, heade
 		ordered.forEach((q, i) => {
 			const col = i % perRow;
 			const row = Math.floor(i / perRow);
-			positions.push({ qubit: q.qubit, x: 8 + col * cell + cell / 2, y: y + row * cell + cell / 2 - 6 });
+			positions.push({ qubit: q.qubit, x: 8 + col * cell + cell / 2, y: y + row * cell + cell / 2 - 16 });
 		});
 		y += Math.ceil(g.qubits.length / perRow) * cell + 6;
 	}

@@ -31,7 +31,7 @@ const C = {
 	header: 0x9aa0ad
 } as const;
 
-const RADIUS = 30;
+const RADIUS = 40;
 const ANIMATION_MS = 220;
 
 interface Dial {
@@ -65,8 +65,12 @@ export interface DialScene {
 	update(qubits: DialQubit[], selected: number | null, animate: boolean): void;
 	/** Average ms between rendered frames over the last second (for the benchmark). */
 	frameStats(): { frames: number; avgMs: number; maxMs: number };
-	zoom(factor: number): void;
+	/** Zoom by `factor` around the given dials (the selected or diverging ones), else the centre. */
+	zoom(factor: number, around?: number[]): void;
+	/** The whole board in view. */
 	resetView(): void;
+	/** These dials in view, as large as they fit (at most 2×). */
+	focus(qubits: number[]): void;
 	/** Draws now so a snapshot of the canvas holds the current frame. */
 	render(): void;
 	canvas: HTMLCanvasElement;
@@ -215,11 +219,13 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 		d.needle.rotation = d.shown * Math.PI * 2;
 	}
 
+	// Every dial writes its actual angle; the selected and the diverging ones also write the
+	// expected one on a second line, so a reader needs no hover to compare them.
 	function subText(q: DialQubit): string {
 		if (q.kind === 'classical') return `bit ${q.bit}`;
-		const lvl = q.level !== undefined ? `m=${q.level} ` : '';
 		const ang = q.angleText ?? (q.angle !== undefined ? q.angle.toFixed(4) : '?');
-		return `${lvl}${ang}${isDiverged(q) ? ' Δ' : ''}`;
+		const tell = (selected === q.qubit || isDiverged(q)) && q.expectedText !== undefined;
+		return tell ? `is ${ang}\nwants ${q.expectedText}` : `${q.level !== undefined ? `m=${q.level} ` : ''}${ang}`;
 	}
 
 	function build(qubits: DialQubit[]) {
@@ -233,7 +239,7 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 		const groups = groupByRegister(qubits);
 		layout = layoutDials(groups, Math.max(240, app.screen.width / world.scale.x));
 		for (const h of layout.headers) {
-			const t = new Text({ text: h.register, style: { fontFamily: 'JetBrains Mono Variable', fontSize: 13, fill: C.header, fontWeight: '600' } });
+			const t = new Text({ text: h.register, style: { fontFamily: 'JetBrains Mono Variable', fontSize: 14, fill: C.header, fontWeight: '600' } });
 			t.position.set(h.x, h.y);
 			world.addChild(t);
 			headers.push(t);
@@ -252,12 +258,12 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 			needle.moveTo(0, 0).lineTo(0, -(RADIUS - 5)).stroke({ width: 3, color: 0xffffff, cap: 'round' });
 			const expected = new Container();
 			expected.addChild(new Graphics().circle(0, -RADIUS, 5).stroke({ width: 2, color: C.expectedLight }));
-			const title = new BitmapText({ text: `${q.register}[${q.index}]`, style: { fontFamily: 'JetBrains Mono Variable', fontSize: 11, fill: C.paper } });
+			const title = new BitmapText({ text: `${q.register}[${q.index}]`, style: { fontFamily: 'JetBrains Mono Variable', fontSize: 13, fill: C.paper } });
 			title.anchor.set(0.5, 0);
 			title.position.set(0, RADIUS + 8);
-			const sub = new BitmapText({ text: '', style: { fontFamily: 'JetBrains Mono Variable', fontSize: 10, fill: C.tick } });
+			const sub = new BitmapText({ text: '', style: { fontFamily: 'JetBrains Mono Variable', fontSize: 12, fill: C.tick, align: 'center' } });
 			sub.anchor.set(0.5, 0);
-			sub.position.set(0, RADIUS + 21);
+			sub.position.set(0, RADIUS + 24);
 			const still = new Container();
 			still.addChild(face, title);
 			still.position.set(p.x, p.y);
@@ -279,7 +285,9 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 			for (const d of dials.values()) drawFace(d);
 			cacheWholeLayer();
 		}
-		cull();
+		// A board taller than the view starts fitted (never enlarged): every dial visible at once.
+		if (layout.height * world.scale.x > app.screen.height) showBox(0, 0, layout.width, layout.height, 1);
+		else cull();
 	}
 
 	/** Advance every moving needle; true when anything moved. */
@@ -343,6 +351,21 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 		}
 		cull();
 	}
+	/** Scale and move so the world box is centred in view, no larger than `most`. */
+	function showBox(x0: number, y0: number, x1: number, y1: number, most: number) {
+		const w = app.screen.width;
+		const h = app.screen.height;
+		const s = Math.max(0.15, Math.min(most, w / (x1 - x0), h / (y1 - y0)));
+		zoomAt(s / world.scale.x, 0, 0);
+		world.x = w / 2 - (s * (x0 + x1)) / 2;
+		world.y = h / 2 - (s * (y0 + y1)) / 2;
+		cull();
+	}
+	function centreOf(qs: number[]): { x: number; y: number } | null {
+		const ps = qs.map((q) => dials.get(q)?.root.position).filter((p) => p !== undefined);
+		if (!ps.length) return null;
+		return { x: ps.reduce((a, p) => a + p.x, 0) / ps.length, y: ps.reduce((a, p) => a + p.y, 0) / ps.length };
+	}
 	const onWheel = (e: WheelEvent) => {
 		e.preventDefault();
 		const r = app.canvas.getBoundingClientRect();
@@ -402,12 +425,20 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 			const sum = xs.reduce((a, b) => a + b, 0);
 			return { frames: xs.length, avgMs: xs.length ? sum / xs.length : 0, maxMs: xs.length ? Math.max(...xs) : 0 };
 		},
-		zoom(f) {
-			zoomAt(f, app.screen.width / 2, app.screen.height / 2);
+		zoom(f, around = []) {
+			const c = centreOf(around);
+			if (!c) return zoomAt(f, app.screen.width / 2, app.screen.height / 2);
+			// Keep those dials in view: zoom around where they are on screen.
+			zoomAt(f, world.x + c.x * world.scale.x, world.y + c.y * world.scale.x);
 		},
 		resetView() {
-			world.position.set(0, 0);
-			zoomAt(1 / world.scale.x, 0, 0);
+			if (layout) showBox(0, 0, Math.max(layout.width, 1), Math.max(layout.height, 1), 1.25);
+		},
+		focus(qs) {
+			const ps = qs.map((q) => dials.get(q)?.root.position).filter((p) => p !== undefined);
+			if (!ps.length || !layout) return;
+			const h = layout.cell / 2;
+			showBox(Math.min(...ps.map((p) => p.x)) - h, Math.min(...ps.map((p) => p.y)) - h, Math.max(...ps.map((p) => p.x)) + h, Math.max(...ps.map((p) => p.y)) + h + 16, 2);
 		},
 		render() {
 			if (facesDirty && facesLayer.isCachedAsTexture) facesLayer.updateCacheTexture();
