@@ -1,5 +1,5 @@
 import { expect, test, type Page } from '@playwright/test';
-import { demo } from './support/demo';
+import { demo, hydrated } from './support/demo';
 
 // End to end in Chromium: a saved version is checked by the server's worker (not the browser),
 // the workbench follows it with a progress bar, an engineer can cancel one, and the circuits table
@@ -13,10 +13,6 @@ async function signIn(page: Page, email: string, password: string) {
 	await page.getByLabel('Password').fill(password);
 	await page.getByRole('button', { name: 'Sign in' }).click();
 	await expect(page).not.toHaveURL(/\/signin/, { timeout: 60_000 });
-}
-
-async function hydrated(page: Page) {
-	await page.waitForFunction(() => document.documentElement.dataset.hydrated === 'true');
 }
 
 test('save a version, watch the server check run, and see its verdict in the circuits table without a reload', async ({ page }) => {

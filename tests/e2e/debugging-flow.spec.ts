@@ -1,19 +1,12 @@
 import { expect, test, type Page } from '@playwright/test';
 import { pathOf, waitForMail } from './support/accounts';
-import { demo, signInInBrowser } from './support/demo';
+import { demo, hydrated, signInInBrowser, waitForRun } from './support/demo';
 
 // Issue 7 end to end, two people in two browsers: the engineer finds the demo's planted fault
 // (invented demo data: rotation c·a[1] → b[3] is pi/8 instead of pi/4), drops an annotated
 // breakpoint on it, snapshots the frame into a report for the reviewer; the reviewer follows the
 // e-mail to the replay at that step, reads the note, comments and moves the report to verified.
 
-async function hydrated(page: Page) {
-	await page.waitForFunction(() => document.documentElement.dataset.hydrated === 'true');
-}
-async function waitForRun(page: Page) {
-	await expect(page.getByTestId('run-summary')).toBeVisible();
-	await page.waitForTimeout(400); // the re-run after an edit is debounced by 200 ms
-}
 async function setInput(page: Page, register: string, value: string) {
 	const field = page.locator(`#in-${register}`);
 	await field.fill(value);

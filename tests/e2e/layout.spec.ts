@@ -1,6 +1,6 @@
 import { AxeBuilder } from '@axe-core/playwright';
 import { expect, test, type Page } from '@playwright/test';
-import { demo, signInInBrowser } from './support/demo';
+import { demo, hydrated, signInInBrowser } from './support/demo';
 import { FAULT_INPUTS, faultyAdder } from './support/debugging';
 
 // Issue 17: every signed-in page fits 1280, 1440 and 1920 px and a 390 px phone without sideways
@@ -15,10 +15,6 @@ const WIDTHS = [
 	{ width: 1920, height: 1080 },
 	{ width: 390, height: 844 }
 ];
-
-async function hydrated(page: Page) {
-	await page.waitForFunction(() => document.documentElement.dataset.hydrated === 'true');
-}
 
 /** The signed-in pages, found by following links as a person would (report and replay included). */
 async function signedInPages(page: Page): Promise<{ name: string; path: string }[]> {

@@ -1,11 +1,11 @@
-import { expect, test, type APIRequestContext, type Page } from '@playwright/test';
+import { expect, test, type APIRequestContext } from '@playwright/test';
 import { spawn } from 'node:child_process';
 import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { baseURL } from '../../playwright.config';
 import { formHeaders, mailTo, newContext, pathOf, signIn, waitForMail } from './support/accounts';
-import { demo, signInInBrowser } from './support/demo';
+import { demo, hydrated, signInInBrowser } from './support/demo';
 
 // Issue 18: `orrery push` against the built app, as a CI job runs it (a real process, the token
 // in ORRERY_TOKEN). The circuit is the 3-bit Fourier adder of Draper 2000 (quant-ph/0008033) as
@@ -151,10 +151,6 @@ async function mailWithSubject(address: string, pathPart: string, subject: strin
 		if (Date.now() > until) throw new Error(`no mail to ${address} with subject "${subject}"`);
 		await new Promise((r) => setTimeout(r, 200));
 	}
-}
-
-async function hydrated(page: Page) {
-	await page.waitForFunction(() => document.documentElement.dataset.hydrated === 'true');
 }
 
 test('end to end: the engineer pushes a failing file; the reviewer gets the mail, opens the report at the divergence with its picture, comments; the engineer gets the mail', async ({ browser }) => {

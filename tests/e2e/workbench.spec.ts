@@ -1,6 +1,6 @@
 import { readFileSync } from 'node:fs';
 import { expect, test, type Locator, type Page } from '@playwright/test';
-import { demo, signInInBrowser } from './support/demo';
+import { demo, hydrated, signInInBrowser, waitForRun } from './support/demo';
 
 // The drag that svelte-dnd-action accepts (common practice on these machines, see STACK notes):
 // press, move a few pixels, glide to the target in steps, wait, release.
@@ -35,15 +35,6 @@ async function tableRows(page: Page) {
 			expected: r.querySelector('[data-col=expected]')?.textContent?.trim() ?? ''
 		}))
 	);
-}
-
-async function hydrated(page: Page) {
-	await page.waitForFunction(() => document.documentElement.dataset.hydrated === 'true');
-}
-
-async function waitForRun(page: Page) {
-	await expect(page.getByTestId('run-summary')).toBeVisible();
-	await page.waitForTimeout(400); // the re-run after an edit is debounced by 200 ms
 }
 
 test('build a 3-bit Fourier adder by dragging parts, step it, and read 5 + 6 = 3 (mod 8)', async ({ page }) => {

@@ -2,10 +2,10 @@
 // saved for the current run, the captured snapshot and the report opened from it. Lives in the
 // page (the tab's component is re-created whenever the tab is shown).
 import { callApi } from '$lib/debug/client';
-import { captureFrame, describeInputs } from '$lib/components/debug/snapshot';
+import { captureFrame, describeInputs } from '$lib/debug/snapshot';
 import { routes } from '$lib/routes';
 import type { SavedBreakpointView } from '$lib/debug/types';
-import type { WorkbenchContext } from '$lib/components/workbench/context';
+import type { WorkbenchContext } from '$lib/state/workbench-context';
 import type { BreakpointSpec } from '$lib/worker/protocol';
 import type { Severity } from '$lib/debug/reports';
 

@@ -1,7 +1,7 @@
 // Capture the current frame as a PNG: the workbench's frame area (dial board canvas and qubit
 // table) under a header naming circuit, version, step and inputs, with the angle ledger below. Browser only; html-to-image is
 // imported when first used so server rendering never loads it.
-import type { WorkbenchContext } from '$lib/components/workbench/context';
+import type { WorkbenchContext } from '$lib/state/workbench-context';
 
 export type SnapshotHeader = { circuit: string; version: number; step: number; lastStep: number; inputs: string };
 

@@ -1,7 +1,11 @@
-import type { CircuitEditor } from '$lib/state/circuit-editor.svelte';
-import type { RunSession } from '$lib/state/run-session.svelte';
-import type { DialScene } from '$lib/components/dials/dial-scene';
+import type { CircuitEditor } from './circuit-editor.svelte';
+import type { RunSession } from './run-session.svelte';
 import type { BreakpointSpec, RunRequestInputs } from '$lib/worker/protocol';
+
+/** What state needs of the dial board: draw it once more now (before a snapshot copies the canvas). */
+export interface Redrawable {
+	render(): void;
+}
 
 /** Live workbench state handed to the team tab (traces, snapshots, reports). Read-only views. */
 export interface WorkbenchContext {
@@ -9,7 +13,7 @@ export interface WorkbenchContext {
 	readonly editor: CircuitEditor;
 	readonly breakpoints: BreakpointSpec[];
 	readonly inputs: RunRequestInputs;
-	readonly scene: DialScene | null;
+	readonly scene: Redrawable | null;
 	/** The element holding the dial board and qubit table (what a snapshot captures). */
 	readonly frameArea: HTMLElement | null;
 }
