@@ -40,7 +40,8 @@ test('a part grabbed by the middle of its card and dropped below the last item l
 	// copper line marks the place, after item 3.
 	await dragTo(page, page.getByTestId('parts-shelf').locator('[data-part="add-const"]'), 0.5, last.x + last.width / 2, last.y + last.height + 12, async () => {
 		await expect(strip.getByTestId('drop-line')).toHaveCount(1);
-		await expect(strip.getByTestId('drop-line')).toHaveAccessibleName('drops here, as item 4');
+		await expect(strip.getByTestId('drop-line')).toHaveAttribute('data-drop-at', '4');
+		await expect(strip.getByTestId('drop-line')).toContainText('drops here, as item 4');
 	});
 	await expect(items).toHaveCount(4);
 	await expect(strip.getByTestId('drop-line')).toHaveCount(0);
@@ -48,7 +49,9 @@ test('a part grabbed by the middle of its card and dropped below the last item l
 	await expect(items.nth(3)).toContainText('b += 1');
 	// A strip item grabbed by its title (a control, once refused by the drag) moves too: the new last item dragged above the first.
 	const first = (await items.nth(0).boundingBox())!;
-	await dragTo(page, items.nth(3), 0.4, first.x + first.width / 2, first.y + 4);
+	await dragTo(page, items.nth(3), 0.4, first.x + first.width / 2, first.y + 4, async () => {
+		await expect(strip.getByTestId('drop-line')).toHaveAttribute('data-drop-at', '1');
+	});
 	await expect(items.nth(0)).toContainText('b += 1');
 	await expect(items.nth(1)).toContainText('QFT on b');
 });

@@ -3,7 +3,7 @@ import { expect, test, type Locator, type Page } from '@playwright/test';
 import { demo, hydrated, signInInBrowser, waitForRun } from './support/demo';
 
 // The drag that svelte-dnd-action accepts (common practice on these machines, see STACK notes):
-// press, move a few pixels, glide to the target in steps, wait, release.
+// press, move a few pixels, glide to the target in steps, wait for the drop line, release.
 async function drag(page: Page, from: Locator, to: Locator, where: 'top' | 'bottom' = 'bottom') {
 	const a = (await from.boundingBox())!;
 	const b = (await to.boundingBox())!;
@@ -15,7 +15,8 @@ async function drag(page: Page, from: Locator, to: Locator, where: 'top' | 'bott
 	const tx = b.x + b.width / 2;
 	const ty = where === 'top' ? b.y + 6 : b.y + b.height - 5;
 	for (let i = 1; i <= 15; i++) await page.mouse.move(sx + ((tx - sx) * i) / 15, sy + ((ty - sy) * i) / 15);
-	await page.waitForTimeout(200);
+	// Release once the drop line shows where the part goes, as a person would.
+	await expect(to.getByTestId('drop-line')).toHaveCount(1);
 	await page.mouse.up();
 	await page.waitForTimeout(300);
 }

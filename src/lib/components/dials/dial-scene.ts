@@ -224,8 +224,11 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 	function subText(q: DialQubit): string {
 		if (q.kind === 'classical') return `bit ${q.bit}`;
 		const ang = q.angleText ?? (q.angle !== undefined ? q.angle.toFixed(4) : '?');
-		const tell = (selected === q.qubit || isDiverged(q)) && q.expectedText !== undefined;
-		return tell ? `is ${ang}\nwants ${q.expectedText}` : `${q.level !== undefined ? `m=${q.level} ` : ''}${ang}`;
+		const focus = selected === q.qubit || isDiverged(q);
+		if (focus && q.expectedText !== undefined) return `is ${ang}\nwants ${q.expectedText}`;
+		// The selected dial without a ring marker says so (the board's header and the ledger say why).
+		if (focus) return `is ${ang}\nno expected angle`;
+		return `${q.level !== undefined ? `m=${q.level} ` : ''}${ang}`;
 	}
 
 	function build(qubits: DialQubit[]) {
