@@ -7,6 +7,7 @@
  */
 import { readFileSync, writeFileSync } from 'node:fs';
 import { exportQasm } from '../lib/quantum/qasm/export.js';
+import { plural } from '../lib/words.js';
 import { CliError as UsageError, FILE_OPTIONS, loadCircuitFile, parseArgs as parseCliArgs, readRegisterValues, readOptionsFrom, type Args, type ReadOptions } from './files.js';
 import { circuitUnitary, restrictToCleanAncillas, unitaryDistance } from '../lib/quantum/check/equivalence.js';
 import { QasmError } from '../lib/quantum/qasm/lexer.js';
@@ -149,7 +150,7 @@ function printCheck(r: CheckReport, path: string, io: Io, readFlags = ''): void 
 const fmt = (o: Record<string, string>) => Object.entries(o).map(([k, v]) => `${k}=${v}`).join(',');
 
 function printRun(r: RunReport, io: Io): void {
-	const lines = [`engine: ${r.engine}; after ${r.step} of ${r.gateCount} gates (simulated, not a hardware run)`];
+	const lines = [`engine: ${r.engine}; after ${r.step} of ${plural(r.gateCount, 'gate')} (simulated, not a hardware run)`];
 	if (r.handoverReason) lines.push(`  handed over to the amplitude engine at gate ${r.handedOverAt}: ${r.handoverReason}`);
 	if (r.nearClassical)
 		lines.push(`  note: ${r.nearClassical.count} H gate${r.nearClassical.count === 1 ? '' : 's'} read an inexact phase within 1e-6 turn of 0 or ½ as a classical bit (probability dropped ≤ ${r.nearClassical.droppedProbability.toExponential(1)})`);

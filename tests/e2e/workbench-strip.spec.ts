@@ -49,7 +49,7 @@ test('a part grabbed by the middle of its card and dropped below the last item l
 	await expect(items.nth(3)).toContainText('b += 1');
 	// A strip item grabbed by its title (a control, once refused by the drag) moves too: the new last item dragged above the first.
 	const first = (await items.nth(0).boundingBox())!;
-	await dragTo(page, items.nth(3), 0.4, first.x + first.width / 2, first.y + 4, async () => {
+	await dragTo(page, items.nth(3).locator('[role=button]').first(), 0.5, first.x + first.width / 2, first.y + 4, async () => {
 		await expect(strip.getByTestId('drop-line')).toHaveAttribute('data-drop-at', '1');
 	});
 	await expect(items.nth(0)).toContainText('b += 1');

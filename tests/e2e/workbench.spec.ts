@@ -16,7 +16,7 @@ async function drag(page: Page, from: Locator, to: Locator, where: 'top' | 'bott
 	const ty = where === 'top' ? b.y + 6 : b.y + b.height - 5;
 	for (let i = 1; i <= 15; i++) await page.mouse.move(sx + ((tx - sx) * i) / 15, sy + ((ty - sy) * i) / 15);
 	// Release once the drop line shows where the part goes, as a person would.
-	await expect(to.getByTestId('drop-line')).toHaveCount(1);
+	await expect(page.getByTestId('circuit-strip').getByTestId('drop-line')).toHaveCount(1);
 	await page.mouse.up();
 	await page.waitForTimeout(300);
 }

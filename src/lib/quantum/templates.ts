@@ -7,14 +7,25 @@ export type TemplateName = 'blank' | 'adder' | 'multiplier' | 'modular-adder' | 
 /** Template names, for form validation. */
 export const TEMPLATE_NAMES = ['blank', 'adder', 'multiplier', 'modular-adder', 'modular-multiplier', 'period-finding'] as const satisfies readonly TemplateName[];
 
-export const TEMPLATES: { name: TemplateName; title: string; text: string }[] = [
-	{ name: 'blank', title: 'Empty', text: 'two 3-qubit registers a and b, nothing else' },
-	{ name: 'adder', title: '3-bit Fourier adder', text: 'QFT on b, b += a, inverse QFT' },
-	{ name: 'multiplier', title: '3-bit multiplier', text: 'p += a·b by controlled shifted adds' },
-	{ name: 'modular-adder', title: 'Modular adder', text: 'b ← (b + a) mod N in the Fourier basis, for b < N (N = 2^bits − 1)' },
-	{ name: 'modular-multiplier', title: 'Controlled modular multiplier', text: 'if c: b ← (b + 2·x) mod N, for b < N' },
-	{ name: 'period-finding', title: 'Period finding N = 21, a = 2', text: 'y ← 2^e·y mod 21: one controlled in-place multiplier per exponent bit (fixed sizes)' }
+/** Most bits a template takes: 32 (a 32-bit multiplier, 128 qubits and 37,952 gates, is proved by
+ * the Fourier prover); the controlled modular multiplier grows faster (24 bits: 34,118 gates; 32
+ * bits would be 76,850, over the server's 50,000-gate trace limit). Period finding has fixed sizes. */
+export const MAX_TEMPLATE_BITS = 32;
+
+export const TEMPLATES: { name: TemplateName; title: string; text: string; maxBits: number; sized: boolean }[] = [
+	{ name: 'blank', title: 'Empty', text: 'two registers a and b of the chosen size, nothing else', maxBits: MAX_TEMPLATE_BITS, sized: false },
+	{ name: 'adder', title: 'Fourier adder', text: 'QFT on b, b += a, inverse QFT', maxBits: MAX_TEMPLATE_BITS, sized: true },
+	{ name: 'multiplier', title: 'multiplier', text: 'p += a·b by controlled shifted adds', maxBits: MAX_TEMPLATE_BITS, sized: true },
+	{ name: 'modular-adder', title: 'Modular adder', text: 'b ← (b + a) mod N in the Fourier basis, for b < N (N = 2^bits − 1)', maxBits: MAX_TEMPLATE_BITS, sized: false },
+	{ name: 'modular-multiplier', title: 'Controlled modular multiplier', text: 'if c: b ← (b + 2·x) mod N, for b < N', maxBits: 24, sized: false },
+	{ name: 'period-finding', title: 'Period finding N = 21, a = 2', text: 'y ← 2^e·y mod 21: one controlled in-place multiplier per exponent bit (fixed sizes; bits is not used)', maxBits: MAX_TEMPLATE_BITS, sized: false }
 ];
+
+/** The label of a template for a given size ("5-bit Fourier adder", "Modular adder"). */
+export function templateLabel(name: TemplateName, bits: number | string): string {
+	const t = TEMPLATES.find((x) => x.name === name)!;
+	return t.sized ? `${bits}-bit ${t.title}` : t.title;
+}
 
 /** The constants a^(2^i) mod N of the exponentiation, one per exponent bit. */
 function squarings(a: bigint, N: bigint, count: number): bigint[] {

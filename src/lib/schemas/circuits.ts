@@ -1,12 +1,17 @@
 import { z } from 'zod';
-import { TEMPLATE_NAMES } from '$lib/quantum/templates';
+import { MAX_TEMPLATE_BITS, TEMPLATE_NAMES, TEMPLATES } from '$lib/quantum/templates';
 import { parseRegisterMapEntry, RegisterMapError } from '$lib/quantum/qasm/register-map';
 
-export const newCircuitSchema = z.object({
-	title: z.string().trim().min(1, 'Give the circuit a title.').max(120, 'At most 120 characters.'),
-	template: z.enum(TEMPLATE_NAMES, { message: 'Pick a starting point.' }),
-	bits: z.coerce.number({ message: 'A whole number.' }).int('A whole number.').min(1, 'At least 1 bit.').max(16, 'At most 16 bits for a template.')
-});
+export const newCircuitSchema = z
+	.object({
+		title: z.string().trim().min(1, 'Give the circuit a title.').max(120, 'At most 120 characters.'),
+		template: z.enum(TEMPLATE_NAMES, { message: 'Pick a starting point.' }),
+		bits: z.coerce.number({ message: 'A whole number.' }).int('A whole number.').min(1, 'At least 1 bit.').max(MAX_TEMPLATE_BITS, `At most ${MAX_TEMPLATE_BITS} bits for a template.`)
+	})
+	.superRefine((v, ctx) => {
+		const t = TEMPLATES.find((x) => x.name === v.template);
+		if (t && v.bits > t.maxBits) ctx.addIssue({ code: 'custom', path: ['bits'], message: `At most ${t.maxBits} bits for the ${t.title.toLowerCase()} (it grows fastest).` });
+	});
 
 export const circuitIdSchema = z.object({ id: z.string().regex(/^[a-z2-7]{24}$/, 'Not a circuit id.') });
 
