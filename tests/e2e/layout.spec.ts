@@ -1,6 +1,6 @@
 import { AxeBuilder } from '@axe-core/playwright';
 import { expect, test, type Page } from '@playwright/test';
-import { demo, hydrated, signInInBrowser } from './support/demo';
+import { demo, hydrated, signInInBrowser, waitForRun } from './support/demo';
 import { FAULT_INPUTS, faultyAdder } from './support/debugging';
 
 // Issue 17: every signed-in page fits 1280, 1440 and 1920 px and a 390 px phone without sideways
@@ -13,6 +13,7 @@ const WIDTHS = [
 	{ width: 1280, height: 800 },
 	{ width: 1440, height: 900 },
 	{ width: 1920, height: 1080 },
+	{ width: 2560, height: 1440 },
 	{ width: 390, height: 844 }
 ];
 
@@ -102,6 +103,38 @@ test('the dial board fills at least half of a 1440×900 screen and stays in view
 	await expect(page.getByTestId('step-readout')).toHaveText(/step 5 \//);
 	expect(await visibleArea()).toBeGreaterThanOrEqual(0.5 * 1440 * 900);
 	await page.screenshot({ path: 'tests/artifacts/workbench-board-1440.png' });
+});
+
+/** The planted-fault demo at its divergence (c = 1, a = 2), the diverging dial selected. */
+async function atDivergence(page: Page) {
+	await page.goto(`/teams/${SLUG}/circuits`);
+	await page.getByRole('link', { name: /fault planted/ }).first().click();
+	await settle(page, 'workbench');
+	for (const [r, v] of [['c', '1'], ['a', '2']]) {
+		await page.locator(`#in-${r}`).fill(v);
+		await page.locator(`#in-${r}`).press('Tab');
+	}
+	await waitForRun(page);
+	await page.getByTestId('to-divergence').click();
+	await expect(page.getByTestId('position')).toContainText('→ b[3]');
+}
+
+test('screenshots for people to look at: mid-step at a divergence at 1440×900 and 2560×1440', async ({ page }) => {
+	test.setTimeout(120_000);
+	await signInInBrowser(page, demo.engineer.email, demo.engineer.password);
+	for (const size of [{ width: 1440, height: 900 }, { width: 2560, height: 1440 }]) {
+		await page.setViewportSize(size);
+		await atDivergence(page);
+		await page.getByTestId('zoom-divergence').click();
+		await page.waitForTimeout(400);
+		// Stepping moves neither the page nor the board: it stays where it was.
+		const top = await page.getByTestId('dial-board').evaluate((el) => el.getBoundingClientRect().top);
+		await page.getByTestId('step-forward').click();
+		await page.getByTestId('step-back').click();
+		expect(await page.getByTestId('dial-board').evaluate((el) => el.getBoundingClientRect().top)).toBe(top);
+		expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(size.width);
+		await page.screenshot({ path: `tests/artifacts/workbench-divergence-${size.width}.png` });
+	}
 });
 
 test('on a phone the workbench is a readable read-only view that says editing needs a wider screen', async ({ page }) => {

@@ -7,6 +7,7 @@ import { createCircuit, deleteCircuit, findCircuit, findVersion, listCircuits } 
 import { countGates, importUpload } from '$lib/server/heavy';
 import { circuitIdSchema, newCircuitSchema, uploadRegisterMapSchema } from '$lib/schemas/circuits';
 import { applyRegisterMap, RegisterMapError } from '$lib/quantum/qasm/register-map';
+import { rolesFromSpecs } from '$lib/quantum/roles';
 import { makeTemplate } from '$lib/quantum/templates';
 import { routes } from '$lib/routes';
 import { enqueueIfSpecified } from '$lib/server/checks/enqueue';
@@ -75,6 +76,8 @@ export const actions: Actions = {
 				return fail(400, { errors: { [field]: [e.message] }, values: {} });
 			}
 		}
+		// A document that carries specs gives its registers their roles from them (imports say "work").
+		if (document.specs?.length) document = { ...document, registers: rolesFromSpecs(document.registers, document.specs).registers };
 		const message = `imported from ${file.name}${map.data.length ? ` with registers ${map.data.map((m) => `${m.entry.name}=${m.entry.qubits}`).join(', ')}` : ''}`;
 		const { circuit } = await createCircuit(db, access.team.id, access.user.id, document, message, result.gateCount);
 		await enqueueIfSpecified(db, document, { teamId: access.team.id, circuitId: circuit.id, version: 1, userId: access.user.id, reason: 'upload' });
