@@ -288,9 +288,9 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 			for (const d of dials.values()) drawFace(d);
 			cacheWholeLayer();
 		}
-		// A board taller than the view starts fitted (never enlarged): every dial visible at once.
-		if (layout.height * world.scale.x > app.screen.height) showBox(0, 0, layout.width, layout.height, 1);
-		else cull();
+		// Every dial visible at once, centred: a board taller than the view is shrunk to fit, a small
+		// one on a large screen is enlarged (up to START_MOST) so the dials are readable from a chair.
+		showBox(0, 0, layout.width, layout.height, START_MOST);
 	}
 
 	/** Advance every moving needle; true when anything moved. */
@@ -354,6 +354,8 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 		}
 		cull();
 	}
+	/** Largest first scale of a board: dials of radius 40 px are drawn at most 64 px. */
+	const START_MOST = 1.6;
 	/** Scale and move so the world box is centred in view, no larger than `most`. */
 	function showBox(x0: number, y0: number, x1: number, y1: number, most: number) {
 		const w = app.screen.width;
@@ -388,6 +390,10 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 	const endDrag = () => (drag = null);
 	app.stage.on('pointerup', endDrag);
 	app.stage.on('pointerupoutside', endDrag);
+	// pixi's resizeTo follows the window only; the host also changes with the page's layout (a
+	// side folded, the run summary growing), and a canvas left taller than its box covered it.
+	const resizing = new ResizeObserver(() => app.resize());
+	resizing.observe(host);
 	app.renderer.on('resize', () => cull());
 
 	return {
@@ -435,7 +441,7 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 			zoomAt(f, world.x + c.x * world.scale.x, world.y + c.y * world.scale.x);
 		},
 		resetView() {
-			if (layout) showBox(0, 0, Math.max(layout.width, 1), Math.max(layout.height, 1), 1.25);
+			if (layout) showBox(0, 0, Math.max(layout.width, 1), Math.max(layout.height, 1), START_MOST);
 		},
 		focus(qs) {
 			const ps = qs.map((q) => dials.get(q)?.root.position).filter((p) => p !== undefined);
@@ -449,6 +455,7 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 			app.renderer.render(app.stage);
 		},
 		destroy() {
+			resizing.disconnect();
 			cancelAnimationFrame(raf);
 			app.canvas.removeEventListener('wheel', onWheel);
 			app.destroy(true, { children: true });
