@@ -290,7 +290,7 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 		}
 		// Every dial visible at once, centred: a board taller than the view is shrunk to fit, a small
 		// one on a large screen is enlarged (up to START_MOST) so the dials are readable from a chair.
-		showBox(0, 0, layout.width, layout.height, START_MOST);
+		showBox(0, 0, usedWidth(), layout.height, START_MOST);
 	}
 
 	/** Advance every moving needle; true when anything moved. */
@@ -353,6 +353,13 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 			for (const d of dials.values()) d.faceKey = '';
 		}
 		cull();
+	}
+	/** Width the dials take (the layout wraps at the view's width but a short register ends early). */
+	function usedWidth(): number {
+		if (!layout) return 1;
+		let right = 0;
+		for (const p of layout.positions) right = Math.max(right, p.x + layout.cell / 2);
+		return right + 8;
 	}
 	/** Largest first scale of a board: dials of radius 40 px are drawn at most 64 px. */
 	const START_MOST = 1.6;
@@ -441,7 +448,7 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 			zoomAt(f, world.x + c.x * world.scale.x, world.y + c.y * world.scale.x);
 		},
 		resetView() {
-			if (layout) showBox(0, 0, Math.max(layout.width, 1), Math.max(layout.height, 1), START_MOST);
+			if (layout) showBox(0, 0, Math.max(usedWidth(), 1), Math.max(layout.height, 1), START_MOST);
 		},
 		focus(qs) {
 			const ps = qs.map((q) => dials.get(q)?.root.position).filter((p) => p !== undefined);
