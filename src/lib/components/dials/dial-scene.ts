@@ -290,7 +290,7 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 		}
 		// Every dial visible at once, centred: a board taller than the view is shrunk to fit, a small
 		// one on a large screen is enlarged (up to START_MOST) so the dials are readable from a chair.
-		showBox(0, 0, usedWidth(), layout.height, START_MOST);
+		showBox(0, 0, usedWidth(), layout.height + FIT_FOOT, START_MOST);
 	}
 
 	/** Advance every moving needle; true when anything moved. */
@@ -361,6 +361,8 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 		for (const p of layout.positions) right = Math.max(right, p.x + layout.cell / 2);
 		return right + 8;
 	}
+	/** Room under the last row when fitting: its second label line and the zoom buttons over the corner. */
+	const FIT_FOOT = 44;
 	/** Largest first scale of a board: dials of radius 40 px are drawn at most 64 px. */
 	const START_MOST = 1.6;
 	/** Scale and move so the world box is centred in view, no larger than `most`. */
@@ -448,7 +450,7 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 			zoomAt(f, world.x + c.x * world.scale.x, world.y + c.y * world.scale.x);
 		},
 		resetView() {
-			if (layout) showBox(0, 0, Math.max(usedWidth(), 1), Math.max(layout.height, 1), START_MOST);
+			if (layout) showBox(0, 0, Math.max(usedWidth(), 1), layout.height + FIT_FOOT, START_MOST);
 		},
 		focus(qs) {
 			const ps = qs.map((q) => dials.get(q)?.root.position).filter((p) => p !== undefined);
