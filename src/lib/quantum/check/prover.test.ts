@@ -212,7 +212,8 @@ describe('random conjugated circuits: the prover agrees with the exhaustive swee
 			});
 			// without a domain the Fourier-form prover may take it; a domain (true for every input) makes
 			// the general prover run: both must agree with the sweep
-			for (const assume of [[], ['c < 2']]) {
+			// ('c == 1' fixes an input bit: the general prover starts it as a constant)
+			for (const assume of [[], ['c < 2'], ['c == 1'], ['a == 2']]) {
 				const right = run({ ...make(back), assume });
 				agrees(right);
 				expect(right.proof.status).toBe('proved');

@@ -118,10 +118,13 @@ export function inputOrder(registers: PlacedRegister[], inputs: string[]): Map<n
 }
 
 /** Register words over the BDD variables of `order` (start values of the input registers). */
-export function inputWords(bdd: Bdd, ops: WordOps, registers: PlacedRegister[], order: Map<number, number>): Map<string, Word> {
+export function inputWords(bdd: Bdd, ops: WordOps, registers: PlacedRegister[], order: Map<number, number>, fixed?: Map<number, number>): Map<string, Word> {
 	const env = new Map<string, Word>();
 	for (const r of registers) {
-		const bits = Array.from({ length: r.size }, (_, i) => (order.has(r.offset + i) ? bdd.variable(order.get(r.offset + i)!) : FALSE));
+		const bits = Array.from({ length: r.size }, (_, i) => {
+			const l = order.get(r.offset + i);
+			return l === undefined ? FALSE : (fixed?.get(l) ?? bdd.variable(l));
+		});
 		env.set(r.name, ops.unsigned(bits));
 	}
 	return env;
@@ -179,7 +182,7 @@ export function symbolicProve(c: LoweredCircuit, goal: SymbolicGoal): SymbolicRe
 	};
 
 	let dom = TRUE;
-	const env = inputWords(bdd, ops, c.registers, order);
+	let env = inputWords(bdd, ops, c.registers, order);
 	try {
 		for (const cond of goal.conditions) dom = bdd.and(dom, ops.truthy(compileNode(cond.expr, env, ops)));
 	} catch (e) {
@@ -197,6 +200,16 @@ export function symbolicProve(c: LoweredCircuit, goal: SymbolicGoal): SymbolicRe
 		result.reason = 'the domain is empty: no input satisfies every condition';
 		return finish();
 	}
+	// An input bit the domain fixes (y == 1 fixes every bit of y) starts as that constant: every
+	// function then agrees with the original on the domain, and everything is checked on the
+	// domain only (f ∧ domain), so the verdict is the same with smaller decision diagrams.
+	const fixed = new Map<number, number>();
+	for (const l of order.values()) {
+		const v = bdd.variable(l);
+		if (bdd.and(dom, v) === FALSE) fixed.set(l, FALSE);
+		else if (bdd.and(dom, bdd.not(v)) === FALSE) fixed.set(l, TRUE);
+	}
+	if (fixed.size) env = inputWords(bdd, ops, c.registers, order, fixed);
 
 	// State
 	const kind = new Uint8Array(c.qubitCount); // 0 classical, 1 Fourier
@@ -204,7 +217,8 @@ export function symbolicProve(c: LoweredCircuit, goal: SymbolicGoal): SymbolicRe
 	const phase: (Phase | null)[] = [];
 	const writers: number[][] = [];
 	for (let q = 0; q < c.qubitCount; q++) {
-		bit.push(order.has(q) ? bdd.variable(order.get(q)!) : FALSE);
+		const l = order.get(q);
+		bit.push(l === undefined ? FALSE : (fixed.get(l) ?? bdd.variable(l)));
 		phase.push(null);
 		writers.push([]);
 	}
