@@ -43,6 +43,9 @@ describe('modular templates check over their own specs and domains', () => {
 		const cx = r.proof.counterexample;
 		expect(cx).toBeDefined();
 		expect(r.failures.some((f) => f.input.e === cx!.e)).toBe(true);
+		// each wrong bit names the gates that wrote it, each once (the Check tab keys its links by gate)
+		expect(r.proof.bitMismatches.length).toBeGreaterThan(0);
+		for (const m of r.proof.bitMismatches) expect(new Set(m.gates).size).toBe(m.gates.length);
 		const bad = r.failures[0];
 		expect(BigInt(bad.input.e) & 4n).toBe(4n); // exponent bit 2 is set on every failing input
 		const run = new Run(c, { values: { e: Number(bad.input.e), y: 1 } });

@@ -238,9 +238,12 @@ export function symbolicProve(c: LoweredCircuit, goal: SymbolicGoal): SymbolicRe
 		for (const x of gs) if (t.gates.length < MAX_TERM_GATES && !t.gates.includes(x)) t.gates.push(x);
 		if (t.angle.num === 0n) p.delete(f);
 	};
+	/** The last (at most 32) distinct gates that wrote qubit q, oldest first. */
 	const wrote = (q: number, g: number) => {
 		const w = writers[q];
-		if (w.length >= 32) w.shift();
+		const at = w.indexOf(g);
+		if (at >= 0) w.splice(at, 1);
+		else if (w.length >= 32) w.shift();
 		w.push(g);
 	};
 
