@@ -290,7 +290,7 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 		}
 		// Every dial visible at once, centred: a board taller than the view is shrunk to fit, a small
 		// one on a large screen is enlarged (up to START_MOST) so the dials are readable from a chair.
-		showBox(0, 0, usedWidth(), layout.height + FIT_FOOT, START_MOST);
+		fitAll();
 	}
 
 	/** Advance every moving needle; true when anything moved. */
@@ -361,6 +361,12 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 		for (const p of layout.positions) right = Math.max(right, p.x + layout.cell / 2);
 		return right + 8;
 	}
+	/** Until someone zooms or pans, the board keeps every dial in view as its box changes size. */
+	let chosenView = false;
+	function fitAll() {
+		chosenView = false;
+		if (layout) showBox(0, 0, Math.max(usedWidth(), 1), layout.height + FIT_FOOT, START_MOST);
+	}
 	/** Room under the last row when fitting: its second label line and the zoom buttons over the corner. */
 	const FIT_FOOT = 44;
 	/** Largest first scale of a board: dials of radius 40 px are drawn at most 64 px. */
@@ -382,6 +388,7 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 	}
 	const onWheel = (e: WheelEvent) => {
 		e.preventDefault();
+		chosenView = true;
 		const r = app.canvas.getBoundingClientRect();
 		zoomAt(e.deltaY < 0 ? 1.12 : 1 / 1.12, e.clientX - r.left, e.clientY - r.top);
 	};
@@ -392,6 +399,7 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 	});
 	app.stage.on('pointermove', (e: FederatedPointerEvent) => {
 		if (!drag) return;
+		chosenView = true;
 		world.x = drag.wx + e.global.x - drag.x;
 		world.y = drag.wy + e.global.y - drag.y;
 		cull();
@@ -401,7 +409,10 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 	app.stage.on('pointerupoutside', endDrag);
 	// pixi's resizeTo follows the window only; the host also changes with the page's layout (a
 	// side folded, the run summary growing), and a canvas left taller than its box covered it.
-	const resizing = new ResizeObserver(() => app.resize());
+	const resizing = new ResizeObserver(() => {
+		app.resize();
+		if (!chosenView) fitAll();
+	});
 	resizing.observe(host);
 	app.renderer.on('resize', () => cull());
 
@@ -444,17 +455,19 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 			return { frames: xs.length, avgMs: xs.length ? sum / xs.length : 0, maxMs: xs.length ? Math.max(...xs) : 0 };
 		},
 		zoom(f, around = []) {
+			chosenView = true;
 			const c = centreOf(around);
 			if (!c) return zoomAt(f, app.screen.width / 2, app.screen.height / 2);
 			// Keep those dials in view: zoom around where they are on screen.
 			zoomAt(f, world.x + c.x * world.scale.x, world.y + c.y * world.scale.x);
 		},
 		resetView() {
-			if (layout) showBox(0, 0, Math.max(usedWidth(), 1), layout.height + FIT_FOOT, START_MOST);
+			fitAll();
 		},
 		focus(qs) {
 			const ps = qs.map((q) => dials.get(q)?.root.position).filter((p) => p !== undefined);
 			if (!ps.length || !layout) return;
+			chosenView = true;
 			const h = layout.cell / 2;
 			showBox(Math.min(...ps.map((p) => p.x)) - h, Math.min(...ps.map((p) => p.y)) - h, Math.max(...ps.map((p) => p.x)) + h, Math.max(...ps.map((p) => p.y)) + h + 16, 2);
 		},
