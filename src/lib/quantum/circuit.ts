@@ -526,6 +526,14 @@ export function flatQubit(c: { registers: PlacedRegister[] }, name: string, inde
  * Flat qubit `q` in the user's words, `reg[i]` (register `reg`, index i, index 0 = LSB); `q<n>`
  * for a qubit outside every register. The one label every screen, message and report uses.
  */
+/** Every qubit's label, indexed by flat qubit (`reg[i]`; a gap between registers reads `q7`). */
+export function qubitLabels(registers: readonly Pick<PlacedRegister, 'name' | 'size' | 'offset'>[]): string[] {
+	const out: string[] = [];
+	for (const r of registers) for (let i = 0; i < r.size; i++) out[r.offset + i] = `${r.name}[${i}]`;
+	for (let q = 0; q < out.length; q++) out[q] ??= `q${q}`;
+	return out;
+}
+
 export function qubitLabel(registers: readonly PlacedRegister[], q: number): string {
 	for (const r of registers) if (q >= r.offset && q < r.offset + r.size) return `${r.name}[${q - r.offset}]`;
 	return `q${q}`;

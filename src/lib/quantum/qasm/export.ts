@@ -9,7 +9,7 @@
  * re-imported circuit is then the decomposition, equal as a unitary.
  */
 import { reduceSigned, type Angle } from '../angle.js';
-import { gateAt, type CircuitDocument, type LoweredCircuit } from '../circuit.js';
+import { gateAt, qubitLabels, type CircuitDocument, type LoweredCircuit } from '../circuit.js';
 import { lowerCircuit } from '../lower.js';
 import { u3Angles } from './matrix.js';
 
@@ -59,8 +59,8 @@ export function exportQasm(circuit: CircuitDocument | LoweredCircuit, options: Q
 	const c: LoweredCircuit = 'gateCount' in circuit ? circuit : lowerCircuit(circuit);
 	const v = options.version;
 	const comments = options.comments ?? true;
-	const names: string[] = [];
-	for (const r of c.registers) for (let i = 0; i < r.size; i++) names.push(`${r.name}[${i}]`);
+	// OpenQASM writes a qubit as reg[i], which is the product's label too
+	const names = qubitLabels(c.registers);
 	const lines: string[] = [];
 	lines.push(`OPENQASM ${v}.0;`);
 	lines.push(`include "${v === 3 ? 'stdgates.inc' : 'qelib1.inc'}";`);
