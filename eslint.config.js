@@ -44,8 +44,8 @@ export default ts.config(
 	},
 	{
 		// Dependencies point one way: components use the core, the worker, state and the server, never
-		// the reverse. Shared code lives in lib/quantum, lib/dials, lib/worker, lib/state or lib/debug.
-		files: ['src/lib/worker/**/*.ts', 'src/lib/server/**/*.ts', 'src/lib/dials/**/*.ts', 'src/lib/state/**/*.ts', 'src/lib/debug/**/*.ts', 'src/cli/**/*.ts', 'seeds/**/*.ts', 'src/routes/**/*.server.ts', 'src/routes/api/**/*.ts'],
+		// the reverse. Shared code lives in lib/quantum, lib/dials, lib/worker, lib/state or lib/review.
+		files: ['src/lib/worker/**/*.ts', 'src/lib/server/**/*.ts', 'src/lib/dials/**/*.ts', 'src/lib/state/**/*.ts', 'src/lib/review/**/*.ts', 'src/cli/**/*.ts', 'seeds/**/*.ts', 'src/routes/**/*.server.ts', 'src/routes/api/**/*.ts'],
 		rules: {
 			'no-restricted-imports': ['error', { patterns: [{ group: ['$lib/components/*', '**/components/*'], message: 'import shared code from lib/quantum, lib/dials or lib/worker, not from components' }] }]
 		}

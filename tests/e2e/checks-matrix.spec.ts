@@ -1,6 +1,6 @@
 import { expect, test, type APIRequestContext } from '@playwright/test';
 import { formHeaders } from './support/accounts';
-import { ACTORS, faultyAdder, makeCrew, type Actor, type Crew } from './support/debugging';
+import { ACTORS, faultyAdder, makeCrew, type Actor, type Crew } from './support/review';
 import { makeTemplate } from '../../src/lib/quantum/templates';
 
 // Server checks over HTTP for owner, engineer, reviewer, viewer, a signed-in stranger and no

@@ -1,7 +1,7 @@
 import { expect, test, type APIRequestContext } from '@playwright/test';
 import { baseURL } from '../../playwright.config';
 import { formHeaders } from './support/accounts';
-import { ACTORS, makeCrew, type Actor, type Crew } from './support/debugging';
+import { ACTORS, makeCrew, type Actor, type Crew } from './support/review';
 import { makeTemplate } from '../../src/lib/quantum/templates';
 
 // Issue 6's role matrix: every circuits page, form action and endpoint for owner, engineer,

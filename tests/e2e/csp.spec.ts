@@ -1,6 +1,6 @@
 import { expect, test, type Page } from '@playwright/test';
 import { demo, hydrated, signInInBrowser, waitForRun } from './support/demo';
-import { FAULT_INPUTS, faultyAdder } from './support/debugging';
+import { FAULT_INPUTS, faultyAdder } from './support/review';
 
 // Issue 10: every page carries the content security policy of kit.csp (svelte.config.js), with no
 // 'unsafe-eval' and no 'unsafe-inline' for scripts, and the app still works under it: the landing,

@@ -1,7 +1,7 @@
 import { AxeBuilder } from '@axe-core/playwright';
 import { expect, test, type Page } from '@playwright/test';
 import { demo, hydrated, signInInBrowser, waitForRun } from './support/demo';
-import { FAULT_INPUTS, faultyAdder } from './support/debugging';
+import { FAULT_INPUTS, faultyAdder } from './support/review';
 
 // Issue 17: every signed-in page fits 1280, 1440 and 1920 px and a 390 px phone without sideways
 // scrolling; the dial board is the largest thing on the workbench (at least half of a 1440×900

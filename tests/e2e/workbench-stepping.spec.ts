@@ -1,6 +1,6 @@
 import { expect, test, type Page } from '@playwright/test';
 import { demo, hydrated, signInInBrowser, waitForRun } from './support/demo';
-import { FAULT_INPUTS, faultyAdder } from './support/debugging';
+import { FAULT_INPUTS, faultyAdder } from './support/review';
 
 // Issue 17: "to breakpoint" (button and key) in the workbench and in the reviewer's replay. The
 // breakpoint list used to reach the worker as a reactive proxy, which postMessage cannot clone.

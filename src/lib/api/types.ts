@@ -1,8 +1,8 @@
 // The JSON bodies the api/ endpoints answer with. Each endpoint builds its body `satisfies` the type
 // here, and the browser's client (client.ts) reads the same type, so the two cannot drift apart.
-import type { SavedBreakpointView } from '$lib/debug/types';
+import type { SavedBreakpointView } from '$lib/review/types';
 import type { CheckView } from '$lib/server/checks/view';
-import type { SavedTrace } from '$lib/server/debugging';
+import type { SavedTrace } from '$lib/server/review';
 
 /** GET /api/teams/[slug]/circuits/[id]/checks: newest first, the latest with its progress. */
 export interface CircuitChecksResponse {

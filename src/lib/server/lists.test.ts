@@ -1,7 +1,7 @@
 import { isHttpError } from '@sveltejs/kit';
 import { describe, expect, it } from 'vitest';
 import { readQuery } from './lists';
-import { reportQuerySchema, traceQuerySchema } from '$lib/schemas/debugging';
+import { reportQuerySchema, traceQuerySchema } from '$lib/schemas/review';
 
 // The query string the traces and reports tables share with GET /api/teams/{slug}/traces|reports.
 

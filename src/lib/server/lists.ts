@@ -3,7 +3,7 @@ import type { z } from 'zod';
 import { db } from './db';
 import { listReports } from './repositories/reports';
 import { listTraces, traceView } from './repositories/traces';
-import { reportQuerySchema, traceQuerySchema } from '$lib/schemas/debugging';
+import { reportQuerySchema, traceQuerySchema } from '$lib/schemas/review';
 import { routes } from '$lib/routes';
 
 // One page of the traces table and of the reports table, read from a query string. The JSON API

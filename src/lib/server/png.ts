@@ -1,5 +1,5 @@
 import { error } from '@sveltejs/kit';
-import { MAX_SNAPSHOT_BYTES } from '$lib/schemas/debugging';
+import { MAX_SNAPSHOT_BYTES } from '$lib/schemas/review';
 
 // A snapshot is accepted only when its bytes are a PNG (the 8-byte signature and an IHDR chunk
 // first, per the PNG specification, ISO/IEC 15948 §5.2 and §11.2.2), whatever the upload claims.

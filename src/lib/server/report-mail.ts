@@ -3,7 +3,7 @@ import { sendMail, type Mail } from './mail';
 import type { Db } from './db';
 import { reportPeople, type ReportPerson, type ReportView } from './repositories/reports';
 import { routes } from '$lib/routes';
-import { SEVERITY_LABEL, STATUS_LABEL, type ReportStatus } from '$lib/debug/reports';
+import { SEVERITY_LABEL, STATUS_LABEL, type ReportStatus } from '$lib/review/reports';
 
 // Mail for the review loop. A report's people (its reporter, assignee and reviewer) hear about
 // what others do to it: a new report naming them, each comment, each status change, being named

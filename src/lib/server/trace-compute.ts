@@ -7,8 +7,8 @@ import { describeGate, prepareIntents, toFrameView } from '$lib/worker/engine';
 import { gateAt, gateProvenance, qubitLabel, type LoweredCircuit } from '$lib/quantum/circuit';
 import { formatTurns } from '$lib/quantum/angle';
 import { renderDialBoardSvg } from '$lib/dials/dial-svg';
-import type { TraceSummaryInput } from '$lib/schemas/debugging';
-import type { LedgerExcerpt } from '$lib/debug/types';
+import type { TraceSummaryInput } from '$lib/schemas/review';
+import type { LedgerExcerpt } from '$lib/review/types';
 
 export type { LedgerExcerpt };
 

@@ -15,7 +15,7 @@ import { exportQasm, QasmExportError } from '$lib/quantum/qasm/export';
 import { importCircuitText, type ImportResult } from '../circuit-import';
 import { countLoweredGates, MAX_COUNTED_GATES } from '../gate-count';
 import { computeTraceSummary, drawBoardAt, type BoardPicture, type ServerInputs } from '../trace-compute';
-import type { TraceSummaryInput } from '$lib/schemas/debugging';
+import type { TraceSummaryInput } from '$lib/schemas/review';
 
 /** Lowered gates and block calls at most expanded for one export, and the most text one answer carries. */
 export const MAX_EXPORT_GATES = 500_000;

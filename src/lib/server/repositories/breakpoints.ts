@@ -2,8 +2,8 @@ import type { Db } from '../db';
 import { newId } from '../ids';
 import { renderMarkdown } from '../markdown';
 import type { z } from 'zod';
-import type { breakpointSpecSchema } from '$lib/schemas/debugging';
-import type { SavedBreakpointView } from '$lib/debug/types';
+import type { breakpointSpecSchema } from '$lib/schemas/review';
+import type { SavedBreakpointView } from '$lib/review/types';
 
 type Spec = z.infer<typeof breakpointSpecSchema>;
 

@@ -3,9 +3,9 @@ import type { Db } from '../db';
 import { newId } from '../ids';
 import { renderMarkdown } from '../markdown';
 import { deleteReportSnapshots, insertAttachment } from './attachments';
-import { canMove, STATUS_LABEL, type ReportStatus, type Severity } from '$lib/debug/reports';
-import type { CreateReportInput, ReportQuery, UpdateReportInput } from '$lib/schemas/debugging';
-import type { LedgerExcerpt } from '$lib/debug/types';
+import { canMove, STATUS_LABEL, type ReportStatus, type Severity } from '$lib/review/reports';
+import type { CreateReportInput, ReportQuery, UpdateReportInput } from '$lib/schemas/review';
+import type { LedgerExcerpt } from '$lib/review/types';
 
 type Person = { id: string; name: string; email?: string } | null;
 

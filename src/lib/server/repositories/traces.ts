@@ -1,7 +1,7 @@
 import type { Db } from '../db';
 import { newId } from '../ids';
 import { deleteReportSnapshots } from './attachments';
-import type { TraceQuery, TraceSummaryInput } from '$lib/schemas/debugging';
+import type { TraceQuery, TraceSummaryInput } from '$lib/schemas/review';
 
 export type TraceRow = {
 	id: string;

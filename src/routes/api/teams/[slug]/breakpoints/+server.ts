@@ -4,7 +4,7 @@ import { db } from '$lib/server/db';
 import { requireTeamRole } from '$lib/server/guard';
 import { findCircuit, findVersion } from '$lib/server/repositories/circuits';
 import { insertBreakpoint, listBreakpoints } from '$lib/server/repositories/breakpoints';
-import { createBreakpointSchema } from '$lib/schemas/debugging';
+import { createBreakpointSchema } from '$lib/schemas/review';
 import type { BreakpointCreatedResponse, BreakpointListResponse } from '$lib/api/types';
 import type { RequestHandler } from './$types';
 

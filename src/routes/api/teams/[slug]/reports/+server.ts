@@ -1,7 +1,7 @@
 import { json } from '@sveltejs/kit';
 import { apiRoute } from '$lib/server/api';
 import { requireTeamRole } from '$lib/server/guard';
-import { openReport, readReportRequest } from '$lib/server/debugging';
+import { openReport, readReportRequest } from '$lib/server/review';
 import { reportListPage } from '$lib/server/lists';
 import { routes } from '$lib/routes';
 import type { ReportCreatedResponse } from '$lib/api/types';

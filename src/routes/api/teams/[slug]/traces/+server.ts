@@ -1,9 +1,9 @@
 import { json } from '@sveltejs/kit';
 import { apiRoute, readJson } from '$lib/server/api';
 import { requireTeamRole } from '$lib/server/guard';
-import { saveTrace } from '$lib/server/debugging';
+import { saveTrace } from '$lib/server/review';
 import { traceListPage } from '$lib/server/lists';
-import { createTraceSchema } from '$lib/schemas/debugging';
+import { createTraceSchema } from '$lib/schemas/review';
 import { routes } from '$lib/routes';
 import type { TraceCreatedResponse } from '$lib/api/types';
 import type { RequestHandler } from './$types';

@@ -5,7 +5,7 @@ import { can } from '$lib/permissions';
 import { createCircuit, findCircuit, findVersion, listVersions, saveVersion, StaleVersionError } from '$lib/server/repositories/circuits';
 import { readPostedDocument } from '$lib/server/heavy';
 import { routes } from '$lib/routes';
-import { loadTeamDebug } from '$lib/server/debugging';
+import { loadTeamReview } from '$lib/server/review';
 import { enqueueIfSpecified, readProgress } from '$lib/server/checks/enqueue';
 import { latestCheckOfVersion } from '$lib/server/checks/store';
 import { checkView } from '$lib/server/checks/view';
@@ -33,7 +33,7 @@ export const load: PageServerLoad = async ({ locals, params, url, depends }) => 
 		version: { number: version.version, hash: version.hash, createdAt: version.created_at.toISOString(), message: version.message },
 		document: version.document,
 		versions: versions.map((v) => ({ number: v.version, message: v.message, createdAt: v.created_at.toISOString() })),
-		debug: await loadTeamDebug(access, version.id),
+		review: await loadTeamReview(access, version.id),
 		serverCheck: check ? checkView(check, await readProgress(db, check).catch(() => null)) : null,
 		canRunChecks: can(access.role, 'check.run')
 	};

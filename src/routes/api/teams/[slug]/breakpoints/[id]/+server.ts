@@ -3,7 +3,7 @@ import { apiRoute, readJson } from '$lib/server/api';
 import { db } from '$lib/server/db';
 import { requireTeamRole } from '$lib/server/guard';
 import { annotateBreakpoint, deleteBreakpoint, StaleRevisionError } from '$lib/server/repositories/breakpoints';
-import { annotateSchema } from '$lib/schemas/debugging';
+import { annotateSchema } from '$lib/schemas/review';
 import type { BreakpointAnnotatedResponse } from '$lib/api/types';
 import type { RequestHandler } from './$types';
 

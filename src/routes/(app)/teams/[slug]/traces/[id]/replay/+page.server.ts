@@ -1,7 +1,7 @@
 import { error } from '@sveltejs/kit';
 import { db } from '$lib/server/db';
 import { requireTeamRole } from '$lib/server/guard';
-import { loadTeamDebug } from '$lib/server/debugging';
+import { loadTeamReview } from '$lib/server/review';
 import { findTrace, traceView } from '$lib/server/repositories/traces';
 import { findVersion } from '$lib/server/repositories/circuits';
 import { findReport } from '$lib/server/repositories/reports';
@@ -22,6 +22,6 @@ export const load: PageServerLoad = async ({ locals, params, url }) => {
 		document: version.document,
 		step,
 		report: report && report.trace.id === trace.id ? { id: report.id, title: report.title, status: report.status, step: report.step } : null,
-		debug: await loadTeamDebug(access, version.id)
+		review: await loadTeamReview(access, version.id)
 	};
 };

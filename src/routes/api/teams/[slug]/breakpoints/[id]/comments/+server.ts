@@ -3,7 +3,7 @@ import { apiRoute, readJson } from '$lib/server/api';
 import { db } from '$lib/server/db';
 import { requireTeamRole } from '$lib/server/guard';
 import { addBreakpointComment, findBreakpoint } from '$lib/server/repositories/breakpoints';
-import { commentSchema } from '$lib/schemas/debugging';
+import { commentSchema } from '$lib/schemas/review';
 import type { CommentCreatedResponse } from '$lib/api/types';
 import type { RequestHandler } from './$types';
 

@@ -3,7 +3,7 @@ import { apiRoute, readJson } from '$lib/server/api';
 import { db } from '$lib/server/db';
 import { requireTeamRole } from '$lib/server/guard';
 import { addReportComment, findReport } from '$lib/server/repositories/reports';
-import { commentSchema } from '$lib/schemas/debugging';
+import { commentSchema } from '$lib/schemas/review';
 import { notifyReportEvent } from '$lib/server/report-mail';
 import type { RequestHandler } from './$types';
 

@@ -1,6 +1,6 @@
 import { baseURL } from '../../playwright.config';
 import { expect, test } from '@playwright/test';
-import { FAULT_INPUTS, faultyAdder, makeCrew, pushTrace, TINY_PNG, type Crew } from './support/debugging';
+import { FAULT_INPUTS, faultyAdder, makeCrew, pushTrace, TINY_PNG, type Crew } from './support/review';
 import { demo, signInInBrowser } from './support/demo';
 import { formHeaders } from './support/accounts';
 import { execFile } from 'node:child_process';
@@ -17,7 +17,7 @@ let trace: Awaited<ReturnType<typeof pushTrace>>;
 test.describe.configure({ mode: 'serial' });
 test.beforeAll(async () => {
 	test.setTimeout(120_000);
-	crew = await makeCrew('Debug api');
+	crew = await makeCrew('Review api');
 	trace = await pushTrace(crew.ctx.engineer, crew.slug, `Api adder ${Date.now()}`);
 });
 test.afterAll(async () => crew?.dispose());

@@ -1,7 +1,7 @@
 import { baseURL } from '../../playwright.config';
 import { expect, test, type APIRequestContext } from '@playwright/test';
 import { formHeaders } from './support/accounts';
-import { ACTORS, FAULT_INPUTS, makeCrew, pushTrace, TINY_PNG, type Actor, type Crew } from './support/debugging';
+import { ACTORS, FAULT_INPUTS, makeCrew, pushTrace, TINY_PNG, type Actor, type Crew } from './support/review';
 
 // Issue 7's role matrix: every new endpoint and form action for owner, engineer, reviewer, viewer,
 // a signed-in stranger and no session, over HTTP against the built app. Each cell is the status
@@ -19,7 +19,7 @@ test.describe.configure({ mode: 'serial' });
 
 test.beforeAll(async () => {
 	test.setTimeout(120_000);
-	crew = await makeCrew('Debug matrix');
+	crew = await makeCrew('Review matrix');
 	trace = await pushTrace(crew.ctx.owner, crew.slug, `Matrix adder ${Date.now()}`);
 	reportId = await newReport();
 	const withSnap = await crew.ctx.owner.post(`/api/teams/${crew.slug}/reports`, {
@@ -132,7 +132,7 @@ const rows: Row[] = [
 ];
 
 for (const row of rows) {
-	test(`debug matrix: ${row.name}`, async () => {
+	test(`review matrix: ${row.name}`, async () => {
 		const got = {} as Record<Actor, number>;
 		const want = {} as Record<Actor, number>;
 		for (const a of ACTORS) {
@@ -143,7 +143,7 @@ for (const row of rows) {
 	});
 }
 
-test('debug matrix: API tokens carry the lesser of token and member role', async () => {
+test('review matrix: API tokens carry the lesser of token and member role', async () => {
 	const mint = async (a: Actor, role: string) => {
 		const res = await api(a).post(`/teams/${s()}/tokens?/create`, { form: { name: `dbg-${a}-${role}-${Date.now()}`, role }, headers: { origin: formHeaders.origin, accept: 'application/json', 'x-sveltekit-action': 'true' } });
 		const body = await res.json();

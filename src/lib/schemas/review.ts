@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { REPORT_STATUSES, SEVERITIES } from '$lib/debug/reports';
+import { REPORT_STATUSES, SEVERITIES } from '$lib/review/reports';
 
 // Payloads of traces, breakpoints, comments and reports, shared by the workbench, the pages'
 // form actions, the JSON API and the command line. No server imports.

@@ -1,4 +1,4 @@
-// Shapes the debugging pages and the workbench's team tab receive (from load or the JSON API).
+// Shapes the review pages (traces, breakpoints, reports) and the workbench's team tab receive (from load or the JSON API).
 import type { BreakpointSpec } from '$lib/worker/protocol';
 
 export type PersonRef = { id: string; name: string } | null;

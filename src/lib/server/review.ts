@@ -13,9 +13,9 @@ import { listBreakpoints } from './repositories/breakpoints';
 import { listMembers } from './repositories/teams';
 import { can } from '$lib/permissions';
 import { serializeCircuitDocument } from '$lib/quantum/schema';
-import { createReportSchema, MAX_SNAPSHOT_BYTES, type CreateReportInput } from '$lib/schemas/debugging';
+import { createReportSchema, MAX_SNAPSHOT_BYTES, type CreateReportInput } from '$lib/schemas/review';
 import type { z } from 'zod';
-import type { createTraceSchema } from '$lib/schemas/debugging';
+import type { createTraceSchema } from '$lib/schemas/review';
 
 // What the JSON API and the pages share for traces and reports: resolving the circuit version a
 // trace refers to, running it on the server when no summary came with it, and opening a report
@@ -193,7 +193,7 @@ export function rethrowReportConflict(e: unknown): never {
 }
 
 /** What the workbench's team tab needs on a circuit page: saved breakpoints, members, rights. */
-export async function loadTeamDebug(access: TeamAccess, versionId: string) {
+export async function loadTeamReview(access: TeamAccess, versionId: string) {
 	return {
 		breakpoints: await listBreakpoints(db, access.team.id, versionId),
 		members: (await listMembers(db, access.team.id)).map((m) => ({ id: m.user_id, name: m.name, role: m.role })),

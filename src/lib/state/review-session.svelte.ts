@@ -1,17 +1,17 @@
 // Browser state of the workbench's team tab: saved breakpoints of this circuit version, the trace
 // saved for the current run, the captured snapshot and the report opened from it. Lives in the
 // page (the tab's component is re-created whenever the tab is shown).
-import { callApi } from '$lib/debug/client';
-import { captureFrame, describeInputs } from '$lib/debug/snapshot';
+import { callApi } from '$lib/review/client';
+import { captureFrame, describeInputs } from '$lib/review/snapshot';
 import { routes } from '$lib/routes';
-import type { SavedBreakpointView } from '$lib/debug/types';
+import type { SavedBreakpointView } from '$lib/review/types';
 import type { WorkbenchContext } from '$lib/state/workbench-context';
 import type { BreakpointSpec } from '$lib/worker/protocol';
-import type { Severity } from '$lib/debug/reports';
+import type { Severity } from '$lib/review/reports';
 
 type TraceRef = { id: string; key: string };
 
-export class DebugSession {
+export class ReviewSession {
 	saved = $state<SavedBreakpointView[]>([]);
 	/** Page-local breakpoint id → the id it was saved as. */
 	savedFrom = $state<Record<string, string>>({});
@@ -99,7 +99,7 @@ export class DebugSession {
 
 	/** Save the workbench's current run as a trace of this version (once per set of inputs). */
 	async saveTrace(ctx: WorkbenchContext, label = ''): Promise<string | null> {
-		const key = DebugSession.runKey(ctx);
+		const key = ReviewSession.runKey(ctx);
 		if (this.trace && (this.fixed || this.trace.key === key)) return this.trace.id;
 		const s = ctx.run.summary;
 		if (!s) return this.#say('Nothing has run yet.', true), null;

@@ -1,2 +1,0 @@
-// The debugging state's name for the one API client ($lib/api/client).
-export { callApi, type ApiResult } from '$lib/api/client';
