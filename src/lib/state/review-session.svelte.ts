@@ -2,6 +2,7 @@
 // saved for the current run, the captured snapshot and the report opened from it. Lives in the
 // page (the tab's component is re-created whenever the tab is shown).
 import { callApi } from '$lib/review/client';
+import type { BreakpointAnnotatedResponse, BreakpointCreatedResponse, BreakpointListResponse, CommentCreatedResponse, ReportCreatedResponse, TraceCreatedResponse } from '$lib/api/types';
 import { captureFrame, describeInputs } from '$lib/review/snapshot';
 import { routes } from '$lib/routes';
 import type { SavedBreakpointView } from '$lib/review/types';
@@ -65,14 +66,14 @@ export class ReviewSession {
 	}
 
 	async reload(): Promise<void> {
-		const r = await callApi<{ breakpoints: SavedBreakpointView[] }>(`${routes.api.breakpoints(this.slug)}?circuit=${this.circuit.id}&version=${this.version}`);
+		const r = await callApi<BreakpointListResponse>(`${routes.api.breakpoints(this.slug)}?circuit=${this.circuit.id}&version=${this.version}`);
 		if (r.ok) this.saved = r.data.breakpoints;
 	}
 
 	async saveBreakpoint(b: BreakpointSpec, note: string): Promise<boolean> {
 		const { id, note: _old, ...shape } = b;
 		this.busy = 'breakpoint';
-		const r = await callApi<{ breakpoint: SavedBreakpointView }>(routes.api.breakpoints(this.slug), {
+		const r = await callApi<BreakpointCreatedResponse>(routes.api.breakpoints(this.slug), {
 			json: { circuitId: this.circuit.id, version: this.version, breakpoint: { ...shape, note } }
 		});
 		this.busy = null;
@@ -84,14 +85,14 @@ export class ReviewSession {
 	}
 
 	async comment(breakpointId: string, body: string): Promise<string | null> {
-		const r = await callApi(routes.api.breakpointComments(this.slug, breakpointId), { json: { body } });
+		const r = await callApi<CommentCreatedResponse>(routes.api.breakpointComments(this.slug, breakpointId), { json: { body } });
 		if (!r.ok) return r.message;
 		await this.reload();
 		return null;
 	}
 
 	async annotate(breakpointId: string, note: string, revision: number): Promise<string | null> {
-		const r = await callApi(routes.api.breakpoint(this.slug, breakpointId), { method: 'PATCH', json: { note, revision } });
+		const r = await callApi<BreakpointAnnotatedResponse>(routes.api.breakpoint(this.slug, breakpointId), { method: 'PATCH', json: { note, revision } });
 		if (!r.ok) return r.message;
 		await this.reload();
 		return null;
@@ -120,7 +121,7 @@ export class ReviewSession {
 			stopped: s.stopped,
 			keyframeChecksums: s.keyframeChecksums
 		};
-		const r = await callApi<{ id: string }>(routes.api.traces(this.slug), {
+		const r = await callApi<TraceCreatedResponse>(routes.api.traces(this.slug), {
 			json: { circuitId: this.circuit.id, version: this.version, label, inputs: ctx.inputs, summary }
 		});
 		this.busy = null;
@@ -158,7 +159,7 @@ export class ReviewSession {
 		const step = this.snapshot?.step ?? ctx.run.step;
 		form.set('report', JSON.stringify({ traceId, step, ...f }));
 		if (this.snapshot) form.set('snapshot', this.snapshot.blob, 'snapshot.png');
-		const r = await callApi<{ id: string; mailed: number; links: { page: string } }>(routes.api.reports(this.slug), { form });
+		const r = await callApi<ReportCreatedResponse>(routes.api.reports(this.slug), { form });
 		this.busy = null;
 		if (!r.ok) return this.#say(r.message, true), false;
 		this.report = { id: r.data.id, href: r.data.links.page, mailed: r.data.mailed };
