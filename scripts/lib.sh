@@ -116,22 +116,26 @@ FLUSH PRIVILEGES;
 SQL
 }
 
-db_stop() {
-	local datadir=$1 pidf="$1/mysqld.pid"
+# pid_stop PIDFILE TENTHS [force]: stop the process named in PIDFILE (TERM), wait up to TENTHS
+# tenths of a second for it to go (a zombie counts as gone), then KILL it if "force" is given.
+pid_stop() {
+	local pidf=$1 tenths=$2 force=${3:-}
 	[ -f "$pidf" ] || return 0
 	local pid; pid=$(cat "$pidf" 2>/dev/null)
 	if [ -n "$pid" ] && kill -0 "$pid" 2>/dev/null; then
 		kill "$pid" 2>/dev/null
-		local i
-		for i in $(seq 1 100); do
-			# A dead server can linger as a zombie for a moment: count that as stopped.
-			local st; st=$(ps -o stat= -p "$pid" 2>/dev/null)
+		local i st
+		for i in $(seq 1 "$tenths"); do
+			st=$(ps -o stat= -p "$pid" 2>/dev/null)
 			[ -z "$st" ] || [[ "$st" == Z* ]] && break
 			sleep 0.1
 		done
+		[ -n "$force" ] && kill -9 "$pid" 2>/dev/null
 	fi
 	rm -f "$pidf"
 }
+
+db_stop() { pid_stop "$1/mysqld.pid" 100; }
 
 # service_start NAME PORT PIDFILE OUT LOG READY HINT COMMAND...
 # Run COMMAND in the background in its own session (no terminal, stdout and stderr to OUT) and wait
@@ -165,12 +169,7 @@ mail_start() {
 		env MAIL_DIR="$dir" SMTP_PORT="$port" node --import tsx scripts/mail-fake.ts
 }
 
-mail_stop() {
-	local pidf=$1
-	[ -f "$pidf" ] || return 0
-	kill "$(cat "$pidf")" 2>/dev/null
-	rm -f "$pidf"
-}
+mail_stop() { pid_stop "$1" 0; }
 
 # redis_start DIR PORT [extra redis-server flags...]
 # A private Redis on loopback as a plain process (no service manager). Idempotent: an instance
@@ -184,21 +183,7 @@ redis_start() {
 		--pidfile "$dir/redis.pid" --logfile "$dir/redis.log" --save '' --appendonly yes "$@"
 }
 
-redis_stop() {
-	local dir=$1 pidf="$1/redis.pid"
-	[ -f "$pidf" ] || return 0
-	local pid; pid=$(cat "$pidf" 2>/dev/null)
-	if [ -n "$pid" ] && kill -0 "$pid" 2>/dev/null; then
-		kill "$pid" 2>/dev/null
-		local i
-		for i in $(seq 1 50); do
-			local st; st=$(ps -o stat= -p "$pid" 2>/dev/null)
-			[ -z "$st" ] || [[ "$st" == Z* ]] && break
-			sleep 0.1
-		done
-	fi
-	rm -f "$pidf"
-}
+redis_stop() { pid_stop "$1/redis.pid" 50; }
 
 # worker_start PIDFILE LOG: one check worker in the background (npm run worker runs one in the foreground).
 worker_start() {
@@ -208,16 +193,5 @@ worker_start() {
 	echo $! >"$pidf"
 }
 
-worker_stop() {
-	local pidf=$1
-	[ -f "$pidf" ] || return 0
-	local pid; pid=$(cat "$pidf" 2>/dev/null)
-	if [ -n "$pid" ] && kill -0 "$pid" 2>/dev/null; then
-		kill "$pid" 2>/dev/null
-		local i
-		# A worker finishes its current chunk of inputs and closes (at most a few seconds).
-		for i in $(seq 1 100); do kill -0 "$pid" 2>/dev/null || break; sleep 0.1; done
-		kill -9 "$pid" 2>/dev/null
-	fi
-	rm -f "$pidf"
-}
+# A worker finishes its current chunk of inputs and closes (at most a few seconds).
+worker_stop() { pid_stop "$1" 100 force; }
