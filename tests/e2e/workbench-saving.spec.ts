@@ -122,3 +122,38 @@ test('leaving the workbench with unsaved edits asks first, inside the app and wh
 	await page.close({ runBeforeUnload: true });
 	await expect.poll(() => kind).toBe('beforeunload');
 });
+
+test('the version picker moves inside the app: no reload, older versions read-only, and unsaved edits ask first', async ({ page }) => {
+	test.setTimeout(120_000);
+	await freshAdder(page, `Picker ${Date.now()}`);
+	await page.getByLabel(/One per line/).fill('b = a + b mod 8\na = a');
+	await page.getByTestId('save').click();
+	await expect(page.getByTestId('save-status')).toContainText('Saved as version 2');
+	// A marker on the window survives only a client-side navigation.
+	await page.evaluate(() => ((window as unknown as { orreryMark: number }).orreryMark = 17));
+	const picker = page.getByLabel('version', { exact: true });
+	await picker.selectOption('1');
+	await expect(page).toHaveURL(/\?version=1$/);
+	await expect(page.getByText('an older version: read-only')).toBeVisible();
+	await expect(picker).toHaveValue('1');
+	expect(await page.evaluate(() => (window as unknown as { orreryMark?: number }).orreryMark)).toBe(17);
+
+	// Back to v2, edit, and pick v1 again: the question comes; staying keeps the edit and the picker.
+	await picker.selectOption('2');
+	await expect(page).toHaveURL(/\?version=2$/);
+	await hydrated(page);
+	await waitForRun(page);
+	await retitle(page, 'edited, not saved');
+	let asked = '';
+	page.once('dialog', (d) => {
+		asked = d.message();
+		void d.dismiss();
+	});
+	await picker.selectOption('1');
+	await expect.poll(() => asked).toMatch(/unsaved/i);
+	await page.waitForTimeout(300);
+	await expect(page).toHaveURL(/\?version=2$/);
+	await expect(picker).toHaveValue('2');
+	await expect(page.getByLabel('Circuit title')).toHaveValue('edited, not saved');
+	expect(await page.evaluate(() => (window as unknown as { orreryMark?: number }).orreryMark)).toBe(17);
+});
