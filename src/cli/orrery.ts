@@ -15,7 +15,7 @@ import { lowerCircuit } from '../lib/quantum/lower.js';
 import { serializeCircuitDocument } from '../lib/quantum/schema.js';
 import type { CircuitDocument, LoweredCircuit } from '../lib/quantum/circuit.js';
 import { checkCircuit, countResources, SpecError, type CheckReport } from '../lib/quantum/check/index.js';
-import type { InputChoice } from '../lib/quantum/check/sweep.js';
+import { resetFailureText, type InputChoice } from '../lib/quantum/check/sweep.js';
 import { runBasisInput, type RunReport } from '../lib/quantum/check/run-input.js';
 
 /** Output sinks, so tests can call {@link main} without a process. */
@@ -132,7 +132,9 @@ function printCheck(r: CheckReport, path: string, io: Io, readFlags = ''): void 
 		lines.push(
 			f.reason === 'phase'
 				? `  input ${fmt(f.input)}: right value, but global phase ${f.phase}, unlike the first input`
-				: `  input ${fmt(f.input)}: expected ${fmt(f.expected)}, got ${fmt(f.got)} (probability of the right answer ${f.probability.toPrecision(6)})`
+				: f.reason === 'reset' && f.reset
+					? `  input ${fmt(f.input)}: ${resetFailureText(f.reset)}`
+					: `  input ${fmt(f.input)}: expected ${fmt(f.expected)}, got ${fmt(f.got)} (probability of the right answer ${f.probability.toPrecision(6)})`
 		);
 	if (r.failures.length > 10) lines.push(`  … ${r.failed - 10} more failing inputs`);
 	for (const w of r.wrongTerms.slice(0, 10))

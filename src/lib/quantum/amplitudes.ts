@@ -19,6 +19,31 @@ export const AMPLITUDE_QUBIT_LIMITS = { browser: 24, server: 26 } as const;
 export interface StateVector {
 	qubitCount: number;
 	data: Float64Array;
+	/** The first reset whose claim "this qubit is |0⟩ here" failed on this state, if any. */
+	resetFailure?: ResetFailure;
+}
+
+/**
+ * A failed reset claim: at gate `gate` qubit `qubit` would be found 1 with probability `p1`
+ * (> {@link RESET_TOLERANCE}). The engines leave the state as it was (a reset is checked, never applied).
+ */
+export interface ResetFailure {
+	gate: number;
+	qubit: number;
+	p1: number;
+}
+
+/** Largest probability of finding 1 at a reset that still counts as |0⟩ (float rounding). */
+export const RESET_TOLERANCE = 1e-9;
+
+/** Probability of finding qubit q in 1 (qubit order: index bit q). */
+export function probabilityOne(s: StateVector, q: number): number {
+	const d = s.data;
+	const stride = 1 << q;
+	const dim = 1 << s.qubitCount;
+	let p = 0;
+	for (let hi = stride; hi < dim; hi += stride << 1) for (let i = hi; i < hi + stride; i++) p += d[2 * i] * d[2 * i] + d[2 * i + 1] * d[2 * i + 1];
+	return p;
 }
 
 /** Allocate |0…0⟩ on `qubitCount` qubits (little-endian); throws above `maxQubits` (default 24). */
@@ -44,7 +69,7 @@ export function setBasisState(s: StateVector, index: number): void {
 
 /** Copy a state (new buffer). */
 export function cloneState(s: StateVector): StateVector {
-	return { qubitCount: s.qubitCount, data: s.data.slice() };
+	return { qubitCount: s.qubitCount, data: s.data.slice(), ...(s.resetFailure ? { resetFailure: { ...s.resetFailure } } : {}) };
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -308,6 +333,13 @@ export function applyLoweredGate(s: StateVector, c: LoweredCircuit, t: GateTable
 			let cm = 0;
 			for (let i = q0; i < q0 + nc; i++) cm |= 1 << ql[i];
 			kernelU(d, n, ql[q1 - 1], cm, M[0][0][0], M[0][0][1], M[0][1][0], M[0][1][1], M[1][0][0], M[1][0][1], M[1][1][0], M[1][1][1]);
+			return;
+		}
+		case GateCode.reset: {
+			// Checked, not applied: the state stays as it is; the first failed claim is kept.
+			if (s.resetFailure) return;
+			const p1 = probabilityOne(s, ql[q0]);
+			if (p1 > RESET_TOLERANCE) s.resetFailure = { gate: g, qubit: ql[q0], p1 };
 			return;
 		}
 	}

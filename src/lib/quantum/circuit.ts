@@ -45,8 +45,13 @@ export interface SourcePosition {
 	column: number;
 }
 
-/** Primitive gate names. Qubit argument order is controls first, then target(s), as in OpenQASM. */
-export type GateName = 'h' | 'x' | 'cx' | 'ccx' | 'swap' | 'p' | 'cp' | 'mcp' | 'rz' | 'u';
+/**
+ * Primitive gate names. Qubit argument order is controls first, then target(s), as in OpenQASM.
+ * `reset` is not a gate but a checked claim: "this qubit is |0⟩ here" (OpenQASM `reset` on an
+ * ancilla). When the claim holds it changes nothing; a run where the qubit could be found 1 there
+ * fails, naming the line. Engines never apply a real (non-unitary) reset.
+ */
+export type GateName = 'h' | 'x' | 'cx' | 'ccx' | 'swap' | 'p' | 'cp' | 'mcp' | 'rz' | 'u' | 'reset';
 
 /** A complex number as [re, im]. */
 export type ComplexPair = [number, number];
@@ -271,8 +276,8 @@ export interface CircuitDocument {
 // Lowered circuit
 
 /** Gate kinds in a lowered circuit (codes stored in `LoweredCircuit.kinds`). */
-export const GATE_KINDS = ['h', 'x', 'cx', 'ccx', 'swap', 'p', 'cp', 'mcp', 'rz', 'u', 'mcx'] as const;
-/** A lowered gate kind. `mcx` is X with any number of controls. */
+export const GATE_KINDS = ['h', 'x', 'cx', 'ccx', 'swap', 'p', 'cp', 'mcp', 'rz', 'u', 'mcx', 'reset'] as const;
+/** A lowered gate kind. `mcx` is X with any number of controls; `reset` is the checked claim "this qubit is |0⟩ here". */
 export type GateKind = (typeof GATE_KINDS)[number];
 /** Numeric code of each gate kind. */
 export const GateCode = {
@@ -286,7 +291,8 @@ export const GateCode = {
 	mcp: 7,
 	rz: 8,
 	u: 9,
-	mcx: 10
+	mcx: 10,
+	reset: 11
 } as const satisfies Record<GateKind, number>;
 
 /** A register placed in the flat qubit space: flat qubit = offset + index (index 0 = LSB). */
@@ -554,5 +560,6 @@ export function fourierLevel(layout: FourierLayout, n: number, index: number): n
 export function gateDisplayName(kind: string, controls: number): string {
 	if (kind === 'mcp') return controls === 2 ? 'doubly controlled phase' : `${controls}-controlled phase`;
 	if (kind === 'mcx') return controls === 2 ? 'Toffoli' : `${controls}-controlled X`;
+	if (kind === 'reset') return 'reset (must be |0⟩)';
 	return kind;
 }

@@ -240,6 +240,8 @@ class ExpectationPass {
 		if (this.applyOverride(g)) return;
 		const c = this.c;
 		const k = c.kinds[g];
+		// A reset claims the qubit is |0⟩ there and changes nothing; the engines check the claim.
+		if (k === GateCode.reset) return;
 		const classical = k === GateCode.x || k === GateCode.cx || k === GateCode.ccx || k === GateCode.mcx || k === GateCode.swap;
 		let ok = classical;
 		for (let i = c.qubitStart[g]; i < c.qubitStart[g + 1]; i++) if (this.bitOf(c.qubitList[i]) === null) ok = false;

@@ -228,7 +228,7 @@ function controlsNotInputs(sec: SectionView, terms: Term[], touched: Set<number>
 	const flipped = new Set<number>(touched);
 	for (let g = 0; g < s.start; g++) {
 		const k = c.kinds[g];
-		if (k === GateCode.p || k === GateCode.cp || k === GateCode.mcp || k === GateCode.rz) continue;
+		if (k === GateCode.p || k === GateCode.cp || k === GateCode.mcp || k === GateCode.rz || k === GateCode.reset) continue;
 		const e = c.qubitStart[g + 1];
 		for (let i = c.qubitStart[g] + c.controlCounts[g]; i < e; i++) flipped.add(c.qubitList[i]);
 	}

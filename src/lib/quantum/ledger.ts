@@ -21,7 +21,7 @@
  */
 import { GateCode, type LoweredCircuit } from './circuit.js';
 import { dyadic, floatTurns, type Angle } from './angle.js';
-import { createState, type StateVector } from './amplitudes.js';
+import { createState, RESET_TOLERANCE, type ResetFailure, type StateVector } from './amplitudes.js';
 
 /** Per-qubit state kind codes of the ledger. */
 export const LedgerKind = { classical: 0, fourier: 1, pure: 2 } as const;
@@ -99,6 +99,8 @@ export interface LedgerState {
 	dropped: number;
 	/** How many H gates did so. */
 	nearCollapses: number;
+	/** The first reset whose claim "this qubit is |0⟩ here" failed (the state is left as it was). */
+	resetFailure: ResetFailure | null;
 }
 
 /**
@@ -133,7 +135,8 @@ export function createLedgerState(qubitCount: number, bits?: ArrayLike<number>):
 		globalPhase: 0n,
 		globalExtra: 0,
 		dropped: 0,
-		nearCollapses: 0
+		nearCollapses: 0,
+		resetFailure: null
 	};
 	if (bits) for (let q = 0; q < qubitCount; q++) s.bit[q] = bits[q] ? 1 : 0;
 	return s;
@@ -152,7 +155,8 @@ export function cloneLedgerState(s: LedgerState): LedgerState {
 		globalPhase: s.globalPhase,
 		globalExtra: s.globalExtra,
 		dropped: s.dropped,
-		nearCollapses: s.nearCollapses
+		nearCollapses: s.nearCollapses,
+		resetFailure: s.resetFailure && { ...s.resetFailure }
 	};
 }
 
@@ -415,6 +419,15 @@ export function applyLedgerGate(s: LedgerState, c: LoweredCircuit, t: LedgerTabl
 			pureMatrix(s, q, M[0][0][0], M[0][0][1], M[0][1][0], M[0][1][1], M[1][0][0], M[1][0][1], M[1][1][0], M[1][1][1]);
 			return true;
 		}
+		case GateCode.reset: {
+			// Checked, not applied (see GateName): a classical 0 passes; anything else fails the claim.
+			if (s.resetFailure) return true;
+			const q = ql[q0];
+			const k = s.kind[q];
+			const p1 = k === LedgerKind.classical ? s.bit[q] : k === LedgerKind.fourier ? 0.5 : s.amp[4 * q + 2] ** 2 + s.amp[4 * q + 3] ** 2;
+			if (p1 > RESET_TOLERANCE) s.resetFailure = { gate: g, qubit: q, p1 };
+			return true;
+		}
 	}
 	return false;
 }
@@ -445,6 +458,7 @@ export function ledgerGlobalPhase(s: LedgerState, t: LedgerTables): Angle {
  */
 export function ledgerToAmplitudes(s: LedgerState, t: LedgerTables, maxQubits: number): StateVector {
 	const sv = createState(s.qubitCount, maxQubits);
+	if (s.resetFailure) sv.resetFailure = { ...s.resetFailure };
 	const d = sv.data;
 	const g = TAU * (Number(s.globalPhase) / 2 ** t.exp + s.globalExtra);
 	d[0] = Math.cos(g);

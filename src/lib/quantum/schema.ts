@@ -28,7 +28,7 @@ const base = {
 const gateItem = z.strictObject({
 	...base,
 	type: z.literal('gate'),
-	gate: z.enum(['h', 'x', 'cx', 'ccx', 'swap', 'p', 'cp', 'mcp', 'rz', 'u']),
+	gate: z.enum(['h', 'x', 'cx', 'ccx', 'swap', 'p', 'cp', 'mcp', 'rz', 'u', 'reset']),
 	qubits: z.array(qubitRef).min(1).max(64),
 	angle: angleText.optional(),
 	matrix: matrix2.optional()
@@ -164,7 +164,8 @@ const GATE_ARITY: Record<string, { qubits: number | 'any'; angle: boolean; matri
 	cp: { qubits: 2, angle: true, matrix: false },
 	mcp: { qubits: 'any', angle: true, matrix: false, minQubits: 1 },
 	rz: { qubits: 1, angle: true, matrix: false },
-	u: { qubits: 1, angle: false, matrix: true }
+	u: { qubits: 1, angle: false, matrix: true },
+	reset: { qubits: 1, angle: false, matrix: false }
 };
 
 /**

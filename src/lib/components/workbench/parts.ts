@@ -43,7 +43,8 @@ const GATE_HINTS: Record<GateName, string> = {
 	cp: 'controlled phase',
 	mcp: 'a phase on the target when every control is 1',
 	rz: 'z rotation',
-	u: 'any one-qubit unitary'
+	u: 'any one-qubit unitary',
+	reset: 'claims the qubit is |0⟩ here; a run where it is not fails'
 };
 
 const GATE_TITLES: Record<GateName, string> = {
@@ -56,7 +57,8 @@ const GATE_TITLES: Record<GateName, string> = {
 	cp: 'CP(θ)',
 	mcp: 'Phase, many controls',
 	rz: 'RZ(θ)',
-	u: 'U'
+	u: 'U',
+	reset: '|0⟩?'
 };
 
 export const LIBRARY_PARTS: Part[] = [

@@ -142,6 +142,10 @@ function walkGates(p: Prover): boolean {
 				break;
 			case GateCode.u:
 				throw new Outside(`gate ${g} is a general single-qubit gate (u) on ${qname(p, qs[0])}; the prover handles h, x-type, swap and phase gates only`, g);
+			case GateCode.reset:
+				throw new Outside(`gate ${g} is a reset on ${qname(p, qs[0])}; its claim (the qubit is |0⟩ there) is checked by the general prover`, g);
+			default:
+				throw new Outside(`gate ${g} has a kind the Fourier-form prover does not know`, g);
 		}
 	}
 	return false;

@@ -29,6 +29,7 @@ export function countResources(c: LoweredCircuit): ResourceCounts {
 	for (let g = 0; g < c.gateCount; g++) {
 		const kind = GATE_KINDS[c.kinds[g]];
 		byKind[kind] = (byKind[kind] ?? 0) + 1;
+		if (kind === 'reset') continue; // a checked claim, not a gate: no layer, no qubits used
 		const s = c.qubitStart[g];
 		const e = c.qubitStart[g + 1];
 		let d = 0;

@@ -9,8 +9,8 @@
  */
 import { applyLedgerGate, buildLedgerTables, createLedgerState, LedgerKind, ledgerGlobalPhase, ledgerToAmplitudes } from '../ledger.js';
 import { addAngles, anglesEqual, floatTurns, formatTurns, reduceSigned, type Angle } from '../angle.js';
-import { applyLoweredGates, buildGateTables, AMPLITUDE_QUBIT_LIMITS } from '../amplitudes.js';
-import type { LoweredCircuit, PlacedRegister } from '../circuit.js';
+import { applyLoweredGates, buildGateTables, AMPLITUDE_QUBIT_LIMITS, type ResetFailure } from '../amplitudes.js';
+import { qubitLabel, type LoweredCircuit, type PlacedRegister } from '../circuit.js';
 import { evaluateSpec, satisfiesConditions, type Condition, type Spec } from './spec.js';
 
 /**
@@ -35,8 +35,13 @@ export interface SweepCase {
 	engine: 'ledger' | 'amplitudes';
 	/** Global phase of the output for this input (turns), on a phase failure. */
 	phase?: string;
-	/** Why it fails: the value, or (value right) a global phase different from the first input's. */
-	reason?: 'value' | 'phase';
+	/**
+	 * Why it fails: the value; (value right) a global phase different from the first input's; or a
+	 * reset whose claim "this qubit is |0⟩ here" failed (checked first: the run is wrong from there).
+	 */
+	reason?: 'value' | 'phase' | 'reset';
+	/** On a reset failure: the gate, its source line, the qubit and the probability of finding it 1 there. */
+	reset?: { gate: number; line: number | null; qubit: string; p1: number };
 }
 
 /** Result of {@link sweepCircuit}. */
@@ -208,7 +213,9 @@ export function sweepCircuit(c: LoweredCircuit, specs: Spec[], options: SweepOpt
 		const got = new Map<string, bigint>();
 		let engine: SweepCase['engine'] = 'ledger';
 		let phase: Angle | null = null;
+		let resetFailure: ResetFailure | null = null;
 		if (g === c.gateCount) {
+			resetFailure = ls.resetFailure;
 			probability = 1;
 			phase = ledgerGlobalPhase(ls, lt);
 			for (let q = 0; q < c.qubitCount; q++) {
@@ -229,6 +236,7 @@ export function sweepCircuit(c: LoweredCircuit, specs: Spec[], options: SweepOpt
 			gt ??= buildGateTables(c);
 			const sv = ledgerToAmplitudes(ls, lt, maxAmp);
 			applyLoweredGates(sv, c, gt, g, c.gateCount);
+			resetFailure = sv.resetFailure ?? null;
 			let want = 0;
 			for (let q = 0; q < c.qubitCount; q++) if (expBits[q]) want += 2 ** q;
 			const d = sv.data;
@@ -248,11 +256,13 @@ export function sweepCircuit(c: LoweredCircuit, specs: Spec[], options: SweepOpt
 			result.engines.amplitudes++;
 		}
 		result.cases++;
+		// A failed reset claim: the run is right at most when the qubit is found 0 there.
+		if (resetFailure) probability = Math.min(probability, 1 - resetFailure.p1);
 		if (probability < result.worstSuccessProbability || result.worstInput === null) {
 			if (probability < result.worstSuccessProbability) result.worstSuccessProbability = probability;
 			if (result.worstInput === null || probability <= result.worstSuccessProbability) result.worstInput = show(values, inputNames);
 		}
-		let reason: SweepCase['reason'] | null = probability < 1 - SUCCESS_TOLERANCE ? 'value' : null;
+		let reason: SweepCase['reason'] | null = resetFailure ? 'reset' : probability < 1 - SUCCESS_TOLERANCE ? 'value' : null;
 		if (!reason && !options.ignorePhase && phase) {
 			if (!reference) {
 				reference = phase;
@@ -262,12 +272,23 @@ export function sweepCircuit(c: LoweredCircuit, specs: Spec[], options: SweepOpt
 		if (reason) {
 			result.failed++;
 			if (result.failures.length < keep)
-				result.failures.push({ input: show(values, inputNames), expected: show(expected, null), got: show(got, null), probability, engine, reason, ...(reason === 'phase' && phase ? { phase: formatTurns(reduceSigned(phase)) } : {}) });
+				result.failures.push({ input: show(values, inputNames), expected: show(expected, null), got: show(got, null), probability, engine, reason, ...(reason === 'phase' && phase ? { phase: formatTurns(reduceSigned(phase)) } : {}), ...(resetFailure ? { reset: resetOf(c, resetFailure) } : {}) });
 		}
 		if (options.onProgress && (i & 255) === 255) options.onProgress(i + 1, total);
 	}
 	options.onProgress?.(total, total);
 	return result;
+}
+
+/** A failed reset claim in words: where, which qubit, and how likely it is found 1 there. */
+export function resetFailureText(r: NonNullable<SweepCase['reset']>): string {
+	const p = r.p1 > 1 - 1e-12 ? 'it holds 1' : `it would be found 1 with probability ${Number(r.p1.toPrecision(6))}`;
+	return `the reset on ${r.qubit} at step ${r.gate + 1}${r.line !== null ? ` (line ${r.line})` : ''} claims it is |0⟩ there, but ${p}`;
+}
+
+function resetOf(c: LoweredCircuit, f: ResetFailure): NonNullable<SweepCase['reset']> {
+	const src = c.itemSources[c.itemOf[f.gate]];
+	return { gate: f.gate, line: src?.line ?? null, qubit: qubitLabel(c.registers, f.qubit), p1: f.p1 };
 }
 
 function fillBits(regs: PlacedRegister[], values: Map<string, bigint>, out: Uint8Array): void {

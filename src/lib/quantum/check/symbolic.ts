@@ -288,6 +288,17 @@ export function symbolicProve(c: LoweredCircuit, goal: SymbolicGoal): SymbolicRe
 		return s;
 	};
 
+	// A wrong bit is described on the domain only (what it holds elsewhere does not matter);
+	// if simplifying hits a limit, the bit as held is described instead.
+	const onDomain = (f: number): number => {
+		try {
+			return bdd.restrict(f, dom);
+		} catch (e) {
+			if (e instanceof BddLimit) return f;
+			throw e;
+		}
+	};
+
 	const g0 = 0;
 	let g = g0;
 	try {
@@ -404,6 +415,29 @@ export function symbolicProve(c: LoweredCircuit, goal: SymbolicGoal): SymbolicRe
 				}
 				case GateCode.u:
 					throw new Stop(`gate ${g} is a general single-qubit gate (u) on ${qname(ql[s])}; the prover handles h, X-type, swap and phase gates`, g, 'unsupported');
+				case GateCode.reset: {
+					// The claim "this qubit is |0⟩ here", for every input of the domain. A Fourier qubit
+					// is found 1 with probability ½ on every input; a classical one where bit ∧ domain.
+					// A failed claim is a mismatch; the state is left as it was and the walk goes on.
+					const q = ql[s];
+					const line = lineOf(g);
+					const where = `0 at the reset at step ${g + 1}${line > 0 ? ` (line ${line})` : ''}, which claims it is |0⟩ there`;
+					const bad = kind[q] === 1 ? dom : bdd.and(bit[q], dom);
+					if (bad !== FALSE && result.mismatches.length < 50) {
+						const a = bdd.anySat(bad)!;
+						result.mismatches.push({
+							register: regOf[q].name,
+							qubit: qname(q),
+							holds: kind[q] === 1 ? 'a superposition (|0⟩ + e^{iφ}|1⟩)/√2, found 1 with probability ½' : describe(bdd, onDomain(bit[q]), levelName),
+							expected: where,
+							input: values(a),
+							gates: [...writers[q], g],
+							lines: linesOf([...writers[q], g])
+						});
+						if (result.counterexamples.length < 3) result.counterexamples.push(values(a));
+					}
+					break;
+				}
 				default:
 					throw new Stop(`gate ${g} has a kind the prover does not know`, g, 'unsupported');
 			}
@@ -417,16 +451,6 @@ export function symbolicProve(c: LoweredCircuit, goal: SymbolicGoal): SymbolicRe
 				result.mismatches.push({ register: regOf[q].name, qubit: qname(q), holds: 'a superposition (|0⟩ + e^{iφ}|1⟩)/√2: no inverse transform brought it back', expected: 'a basis state', input: values(a), gates: writers[q].slice(), lines: linesOf(writers[q]) });
 				if (result.counterexamples.length < 3) result.counterexamples.push(values(a));
 			}
-		// A wrong bit is described on the domain only (what it holds elsewhere does not matter);
-		// if simplifying hits a limit, the bit as held is described instead.
-		const onDomain = (f: number): number => {
-			try {
-				return bdd.restrict(f, dom);
-			} catch (e) {
-				if (e instanceof BddLimit) return f;
-				throw e;
-			}
-		};
 		const specOf = new Map(goal.specs.map((sp) => [sp.out, sp]));
 		for (const r of c.registers) {
 			const sp = specOf.get(r.name);
@@ -472,6 +496,13 @@ export function symbolicProve(c: LoweredCircuit, goal: SymbolicGoal): SymbolicRe
 		return finish();
 	} catch (err) {
 		result.gatesDone = g;
+		// A reset claim already failed on a domain input: that settles it whatever stopped the walk later.
+		if (result.mismatches.length && (err instanceof Stop || err instanceof BddLimit || err instanceof WordUnsupported)) {
+			result.status = 'refuted';
+			result.atGate = g;
+			result.reason = `a reset claim fails; the walk then stopped at gate ${g}: ${(err as Error).message}`;
+			return finish();
+		}
 		if (err instanceof Stop) {
 			result.reason = err.message;
 			result.limit = err.limit;

@@ -60,6 +60,8 @@ function lowerGate(ctx: LowerContext, item: GateItem, env: Env, path: string): v
 			return sink.g1(GateCode.h, qs[0]);
 		case 'x':
 			return sink.g1(GateCode.x, qs[0]);
+		case 'reset':
+			return sink.g1(GateCode.reset, qs[0]);
 		case 'p':
 			return sink.g1(GateCode.p, qs[0], ang);
 		case 'rz':

@@ -156,6 +156,10 @@ export class GateEmitter {
 					this.push('cx', [b, a], o);
 				}
 				return;
+			case 'reset':
+				if (cs.length) this.host.err(o.origin.call, 'a reset cannot be controlled');
+				this.push('reset', [o.t[0]], o);
+				return;
 			case 'h':
 				if (cs.length === 0) this.push('h', [o.t[0]], o);
 				else this.emit({ ...o, kind: 'u', matrix: MATRICES.h }, call);

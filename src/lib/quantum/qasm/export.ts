@@ -109,6 +109,9 @@ export function exportQasm(circuit: CircuitDocument | LoweredCircuit, options: Q
 			case 'swap':
 				body.push(`${gv.kind} ${qs};`);
 				break;
+			case 'reset':
+				body.push(`reset ${qs};`);
+				break;
 			case 'p':
 				body.push(`${v === 3 ? 'p' : 'u1'}(${ang}) ${qs};`);
 				break;

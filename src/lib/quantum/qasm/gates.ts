@@ -18,7 +18,8 @@ import { add, exactNum, mul, numToFloat, type Num } from './expr.js';
 import { matDagger, MATRICES, ryMatrix, u3Matrix } from './matrix.js';
 import type { GateOrigin } from './types.js';
 
-export type OpKind = 'x' | 'h' | 'phase' | 'rz' | 'gphase' | 'u' | 'swap';
+/** `reset` is the statement `reset q;`, read as the checked claim "q is |0⟩ here" (never under a modifier). */
+export type OpKind = 'x' | 'h' | 'phase' | 'rz' | 'gphase' | 'u' | 'swap' | 'reset';
 export interface Op {
 	kind: OpKind;
 	ctrls: number[];

@@ -180,7 +180,7 @@ describe('exact angles', () => {
 });
 
 describe('constructs', () => {
-	it('OpenQASM 2: gate definitions, broadcast, barrier, comments, measure/reset warnings', () => {
+	it('OpenQASM 2: gate definitions, broadcast, barrier, comments, the measure warning and the reset note', () => {
 		const r = importQasm(fixture('constructs2.qasm'), { file: 'constructs2.qasm' });
 		expect(r.version).toBe(2);
 		expect(r.document.registers).toEqual([
@@ -189,7 +189,7 @@ describe('constructs', () => {
 		]);
 		expect(r.warnings.map((w) => `${w.line}:${w.column}: ${w.message}`)).toEqual([
 			'38:1: measure skipped: the checker reads the final state directly',
-			'39:1: reset skipped: qubits start in |0⟩ and mid-circuit reset is not simulated'
+			'39:1: reset is read as a checked claim, not an operation: the qubit must be |0⟩ here, and a run where it is not fails at this line'
 		]);
 		const body = r.document.body as GateItem[];
 		// `h a;` broadcasts to a[0], a[1]; `cx a, b;` pairs a[i] with b[i] (OpenQASM 2.0 spec, §3

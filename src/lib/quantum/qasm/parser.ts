@@ -11,7 +11,7 @@ import { CIRCUIT_FORMAT, CIRCUIT_VERSION, type BodyItem, type CircuitDocument, t
 import { lexQasm, QasmError, type Token, type TokenStream } from './lexer.js';
 import { evaluateTokens, exactNum, numToInteger, readPrintedAngle, type Num, type NumScope } from './expr.js';
 import { BudgetExceeded, shortInteger, WorkBudget } from '../budget.js';
-import { BUILTINS, builtinAvailable, type Builtin } from './gates.js';
+import { BUILTINS, builtinAvailable, op, type Builtin } from './gates.js';
 import { Expander, type GateCall, type GateDef, type Modifier } from './expand.js';
 import { GateEmitter } from './emit.js';
 import type { GateOrigin, PrintedAngleStats, QasmLimits, QasmWarning } from './types.js';
@@ -42,6 +42,7 @@ export class Reader {
 	readonly work: WorkBudget;
 	/** First token of the statement being read: where a problem without a better position is reported. */
 	private statementTok: Token | null = null;
+	private resetNoted = false;
 
 	constructor(
 		private readonly tokens: TokenStream,
@@ -582,8 +583,7 @@ export class Reader {
 				this.skipStatement(t, 'measure skipped: the checker reads the final state directly');
 				return;
 			case 'reset':
-				this.skipStatement(t, 'reset skipped: qubits start in |0⟩ and mid-circuit reset is not simulated');
-				return;
+				return this.resetStatement();
 			case 'barrier':
 				this.next();
 				if (!this.isP(';')) this.qargList(null);
@@ -617,6 +617,26 @@ export class Reader {
 		}
 		const call = this.gateCall(null);
 		this.topLevelCall(call);
+	}
+
+	/**
+	 * `reset q[i];` or `reset q;` (every qubit of q). Read as a checked claim, not an operation: the
+	 * qubit must be |0⟩ there (an ancilla handed back clean); a run where it is not fails at this line.
+	 */
+	private resetStatement(): void {
+		const kw = this.next();
+		if (this.isP(';')) this.err(this.peek(), 'expected a qubit or register after reset');
+		const qargs = this.qargList(null);
+		this.expectP(';', 'the reset');
+		for (const q of qargs)
+			for (const flat of this.qubitsOf(q)) {
+				const origin: GateOrigin = { qasm: 'reset', call: { line: kw.line, column: kw.column }, definitions: [] };
+				this.emitter.emit(op('reset', [flat], origin), { mods: [], name: 'reset', nameTok: kw, params: [], qargs: [q] });
+			}
+		if (!this.resetNoted) {
+			this.resetNoted = true;
+			this.warn(kw, 'reset is read as a checked claim, not an operation: the qubit must be |0⟩ here, and a run where it is not fails at this line');
+		}
 	}
 
 	private skipStatement(t: Token, message: string, mustMeasure = false): void {
@@ -865,6 +885,7 @@ export class Reader {
 
 	resolveGate(call: GateCall, defining: string | null): { params: number; qubits: number; def?: GateDef; builtin?: Builtin } {
 		if (defining !== null && call.name === defining) this.err(call.nameTok, `recursive gate definition: gate "${defining}" calls itself`);
+		if (call.name === 'reset') this.err(call.nameTok, 'reset is not a gate: it takes no modifiers (ctrl, negctrl, inv, pow); write "reset q;" on its own');
 		const def = this.defs.get(call.name);
 		if (def) return { params: def.params.length, qubits: def.qubits.length, def };
 		const b = BUILTINS[call.name];
