@@ -423,13 +423,18 @@ export function applyLedgerGate(s: LedgerState, c: LoweredCircuit, t: LedgerTabl
 			// Checked, not applied (see GateName): a classical 0 passes; anything else fails the claim.
 			if (s.resetFailure) return true;
 			const q = ql[q0];
-			const k = s.kind[q];
-			const p1 = k === LedgerKind.classical ? s.bit[q] : k === LedgerKind.fourier ? 0.5 : s.amp[4 * q + 2] ** 2 + s.amp[4 * q + 3] ** 2;
+			const p1 = ledgerProbabilityOne(s, q);
 			if (p1 > RESET_TOLERANCE) s.resetFailure = { gate: g, qubit: q, p1 };
 			return true;
 		}
 	}
 	return false;
+}
+
+/** Probability of finding qubit q in 1 in the ledger's product state. */
+export function ledgerProbabilityOne(s: LedgerState, q: number): number {
+	const k = s.kind[q];
+	return k === LedgerKind.classical ? s.bit[q] : k === LedgerKind.fourier ? 0.5 : s.amp[4 * q + 2] ** 2 + s.amp[4 * q + 3] ** 2;
 }
 
 /** Human reason why gate g entangles in the current ledger state. */

@@ -58,7 +58,7 @@ const GATE_TITLES: Record<GateName, string> = {
 	mcp: 'Phase, many controls',
 	rz: 'RZ(θ)',
 	u: 'U',
-	reset: '|0⟩?'
+	reset: 'Reset: claim |0⟩'
 };
 
 export const LIBRARY_PARTS: Part[] = [
@@ -78,7 +78,7 @@ export const LIBRARY_PARTS: Part[] = [
 	{ id: 'shelf-ccp-a', kind: 'ccp-ancilla', title: 'CC-phase · ancilla', hint: 'Toffoli, cp, Toffoli', group: 'phase' },
 	{ id: 'shelf-ccp-h', kind: 'ccp-no-ancilla', title: 'CC-phase · half angles', hint: 'cp(θ/2) and two CNOTs', group: 'phase' },
 	{ id: 'shelf-ccp-q', kind: 'ccp-quarter', title: 'CC-phase · quarter angles', hint: 'p(±θ/4) and CNOTs', group: 'phase' },
-	...(['h', 'x', 'cx', 'ccx', 'swap', 'p', 'cp', 'mcp', 'rz'] as GateName[]).map(
+	...(['h', 'x', 'cx', 'ccx', 'swap', 'p', 'cp', 'mcp', 'rz', 'reset'] as GateName[]).map(
 		(g): Part => ({ id: `shelf-gate-${g}`, kind: `gate-${g}`, title: GATE_TITLES[g], hint: GATE_HINTS[g], group: 'gate' })
 	)
 ];
@@ -135,6 +135,7 @@ export function itemFromPart(kind: PartKind, doc: CircuitDocument): BodyItem {
 		}
 		default:
 			if (kind.startsWith('call-')) return { id, type: 'call', block: kind.slice(5), args: {} };
+			if (kind === 'gate-reset') return { id, type: 'gate', gate: 'reset', qubits: [{ register: pick(regs, 'ancilla'), index: 0 }] };
 			return gateFromName(kind.slice(5) as GateName, id, inp, other, out);
 	}
 }

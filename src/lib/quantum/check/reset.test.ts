@@ -5,6 +5,7 @@ import { lowerCircuit } from '../lower.js';
 import { GateCode } from '../circuit.js';
 import { checkCircuit, type CheckReport } from './index.js';
 import { runBasisInput } from './run-input.js';
+import { Run } from '../run.js';
 
 // `reset` on an ancilla is read as a checked claim: "this qubit is |0⟩ here" (issue 13). The
 // OpenQASM 3 specification defines reset as a non-unitary operation that puts the qubit in |0⟩;
@@ -102,6 +103,19 @@ describe('reset read as a checked claim', () => {
 		const rep = runBasisInput(c, new Map([['a', 1n], ['c', 1n], ['b', 0n]]), { engine: 'ledger' });
 		expect(rep.registers.find((x) => x.name === 'b')!.values[0]).toEqual({ value: '1', probability: 1 });
 		expect(rep.registers.find((x) => x.name === 'anc')!.values[0]).toEqual({ value: '0', probability: 1 });
+	});
+
+	it('stepping in the workbench: a failed claim is a divergence on the ancilla right after the reset, in both engines', () => {
+		const c = lowerCircuit(importQasm(early).document);
+		for (const engine of ['auto', 'amplitudes'] as const) {
+			const bad = new Run(c, { values: { a: 1, c: 1 } }, { engine });
+			const d = bad.divergences.filter((x) => x.message.includes('reset'));
+			expect(d).toHaveLength(1);
+			expect(d[0]).toMatchObject({ step: 3, qubit: 3 });
+			expect(d[0].message).toBe('q3 (anc[0]) at step 3: the reset on line 9 claims it is |0⟩ there, but it holds 1');
+			// Inputs where a·c = 0 leave anc clean at the reset.
+			expect(new Run(c, { values: { a: 1, c: 0 } }, { engine }).divergences.filter((x) => x.message.includes('reset'))).toEqual([]);
+		}
 	});
 
 	it('reset is refused where it has no meaning, with its position', () => {

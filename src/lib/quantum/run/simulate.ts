@@ -5,8 +5,8 @@
  * mismatch with an expectation as it happens. `replayTo` rebuilds any step from the nearest
  * keyframe. Qubit order: flat (register offset + index, index 0 = LSB); angles in turns.
  */
-import { allBlochVectors, AMPLITUDE_QUBIT_LIMITS, applyLoweredGate, buildGateTables, cloneState, type GateTables, type StateVector } from '../amplitudes.js';
-import { qubitLabel, type LoweredCircuit } from '../circuit.js';
+import { allBlochVectors, AMPLITUDE_QUBIT_LIMITS, applyLoweredGate, buildGateTables, cloneState, probabilityOne, RESET_TOLERANCE, type GateTables, type StateVector } from '../amplitudes.js';
+import { GateCode, qubitLabel, type LoweredCircuit } from '../circuit.js';
 import { ExpectKind } from '../expect.js';
 import {
 	applyLedgerGate,
@@ -16,6 +16,7 @@ import {
 	createLedgerState,
 	entanglingReason,
 	LedgerKind,
+	ledgerProbabilityOne,
 	ledgerToAmplitudes,
 	type ContributionLog,
 	type LedgerState,
@@ -153,6 +154,18 @@ export function simulate(circuit: LoweredCircuit, inputs: RunInputs, options: Ru
 		}
 	};
 
+	/** A reset claims its qubit is |0⟩ before gate `step`: a failed claim is a divergence on that qubit after it. */
+	const checkReset = (step: number) => {
+		const q = circuit.qubitList[circuit.qubitStart[step]];
+		const p1 = ledger ? ledgerProbabilityOne(ledger, q) : amp ? probabilityOne(amp, q) : 0;
+		if (p1 <= RESET_TOLERANCE) return;
+		if (sim.firstParted[q] < 0) sim.firstParted[q] = step + 1;
+		const line = circuit.itemSources[circuit.itemOf[step]]?.line;
+		const holds = p1 > 1 - 1e-12 ? 'it holds 1' : `it would be found 1 with probability ${Number(p1.toPrecision(6))}`;
+		if (sim.divergences.length < 10_000)
+			sim.divergences.push({ step: step + 1, qubit: q, boundary: true, divergence: null, message: `q${q} (${qubitLabel(circuit.registers, q)}) at step ${step + 1}: the reset${line ? ` on line ${line}` : ''} claims it is |0⟩ there, but ${holds}` });
+	};
+
 	if (superposed.size > 0 || options.engine === 'amplitudes') {
 		const reason = superposed.size > 0 ? `input register${superposed.size > 1 ? 's' : ''} ${[...superposed].join(', ')} in uniform superposition` : 'amplitude engine requested';
 		if (!startAmplitudes(0, reason, null)) sim.ledgerKeys.push(initialLedger());
@@ -170,6 +183,7 @@ export function simulate(circuit: LoweredCircuit, inputs: RunInputs, options: Ru
 		if (!ledger && !amp) break;
 		checkEvents(step);
 		if (step === circuit.gateCount) break;
+		if (circuit.kinds[step] === GateCode.reset) checkReset(step);
 		if (ledger) {
 			if (!applyLedgerGate(ledger, circuit, sim.ledgerTables, step, sim.contributions)) {
 				const reason = entanglingReason(ledger, circuit, step);
