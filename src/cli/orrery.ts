@@ -145,7 +145,7 @@ function printCheck(r: CheckReport, path: string, io: Io, readFlags = ''): void 
 		);
 	for (const m of r.proof.registerMismatches.slice(0, 10)) lines.push(`  ${m.register ? `${m.qubit} ends holding ${m.holds}, expected ${m.expected}` : m.holds}`);
 	for (const s of r.suspects.slice(0, 5))
-		lines.push(`  suspect: line ${s.line ?? '?'}${s.definitionLines.length ? ` (via gate definition line ${s.definitionLines.join(', ')})` : ''} (gate ${s.gate}, ${s.kind} on ${s.qubit}): ${s.reason}`);
+		lines.push(`  suspect: line ${s.line ?? '?'}${s.definitionLines.length ? ` (via gate definition line ${s.definitionLines.join(', ')})` : ''} (gate ${s.gate}, ${s.name} on ${s.qubit}): ${s.reason}`);
 	for (const n of r.notes.slice(1)) if (!n.startsWith('domain: ')) lines.push(`  note: ${n}`);
 	io.out(lines.join('\n'));
 }

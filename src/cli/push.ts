@@ -115,7 +115,7 @@ export function describeFailure(r: CheckReport, file: string): string {
 	const fmt = (o: Record<string, string>) => Object.entries(o).map(([k, v]) => `${k}=${v}`).join(', ');
 	for (const f of r.failures.slice(0, 5)) lines.push(`- input ${fmt(f.input)}: expected ${fmt(f.expected)}, got ${fmt(f.got)}`);
 	for (const w of r.wrongTerms.slice(0, 5)) lines.push(`- wrong term on ${w.target}: coefficient of ${w.term} is ${w.actualTurns}, expected ${w.expectedTurns}`);
-	for (const s of r.suspects.slice(0, 5)) lines.push(`- suspect: gate ${s.gate} (${s.kind} on ${s.qubit})${s.line ? `, line ${s.line}` : ''}: ${s.reason}`);
+	for (const s of r.suspects.slice(0, 5)) lines.push(`- suspect: gate ${s.gate} (${s.name} on ${s.qubit})${s.line ? `, line ${s.line}` : ''}: ${s.reason}`);
 	return lines.join('\n');
 }
 

@@ -58,7 +58,7 @@ export interface CheckReport {
 	worstSuccessProbability: number;
 	failures: SweepCase[];
 	wrongTerms: (Omit<WrongTerm, 'gates' | 'neighbours'> & { gates: number[] })[];
-	suspects: { line: number | null; definitionLines: number[]; gate: number; kind: string; qubit: string; reason: string }[];
+	suspects: { line: number | null; definitionLines: number[]; gate: number; kind: string; name: string; qubit: string; reason: string }[];
 	proof: {
 		status: ProofStatus;
 		/** Which prover decided: the Fourier-form prover (polynomial phases) or the general symbolic one (decision diagrams). */
@@ -316,6 +316,7 @@ export function checkCircuit(c: LoweredCircuit, specTexts: string[], options: Ch
 			definitionLines: options.definitionLines?.get(c.itemIds[c.itemOf[s.gate]]) ?? [],
 			gate: s.gate,
 			kind: s.kind,
+			name: s.name,
 			qubit: s.qubit,
 			reason: s.reason
 		})),

@@ -4,7 +4,7 @@
  * the strongest suspect); sweep failures outside the Fourier form fall back to the last gates
  * that touched a qubit ending wrong. Qubit names read register[index], index 0 = LSB.
  */
-import { gateAt, gateProvenance, GATE_KINDS, qubitLabel, type LoweredCircuit } from '../circuit.js';
+import { gateAt, gateDisplayName, gateProvenance, GATE_KINDS, qubitLabel, type LoweredCircuit } from '../circuit.js';
 import type { ProofResult } from './proof.js';
 import type { SweepCase } from './sweep.js';
 
@@ -14,6 +14,8 @@ export interface Suspect {
 	line: number | null;
 	column: number | null;
 	kind: string;
+	/** The gate's name in the user's words ("doubly controlled phase", not `mcp`). */
+	name: string;
 	qubit: string;
 	reason: string;
 	score: number;
@@ -37,6 +39,7 @@ export function findSuspects(c: LoweredCircuit, proof: ProofResult | null, failu
 			line: src?.line ?? null,
 			column: src?.column ?? null,
 			kind: GATE_KINDS[c.kinds[g]],
+			name: gateDisplayName(GATE_KINDS[c.kinds[g]], c.controlCounts[g]),
 			qubit: qubitLabel(c.registers, v.targets[v.targets.length - 1]),
 			reason,
 			score
