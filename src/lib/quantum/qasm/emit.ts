@@ -61,19 +61,52 @@ export class GateEmitter {
 			const d = o.origin.definitions;
 			item.label = `${o.origin.qasm} → ${d.map((x) => `${x.gate}@${x.line}:${x.column}`).join(' → ')}`.slice(0, 200);
 		}
-		if (angle !== undefined) {
-			// Exported files repeat a few angles, and the reader hands out the same Num for each.
-			let text = this.angleTexts.get(angle);
-			if (text === undefined) {
-				text = angleText(numToAngle(angle));
-				if (this.angleTexts.size < 10_000) this.angleTexts.set(angle, text);
-			}
-			item.angle = text;
-		}
+		if (angle !== undefined) item.angle = this.angleTextOf(angle);
 		if (matrix) item.matrix = matrix;
 		this.items.push(item);
 		this.origins.push(o.origin);
 		this.gatesMade++;
+	}
+
+	/**
+	 * One gate item from the reader's fast path (a standard gate without controls to lower), the
+	 * same item {@link push} makes; the origin's call position is the item's `source`.
+	 */
+	pushPlain(gate: GateItem['gate'], qubits: QubitRef[], origin: GateOrigin, angle: Num | undefined): void {
+		if (this.gatesMade >= this.host.limits.maxGates) this.host.err(origin.call, `more than ${this.host.limits.maxGates} gates after expanding gate definitions (limit)`);
+		const id = `g${this.nextItemId++}`;
+		this.items.push(
+			angle === undefined ? { id, type: 'gate', gate, qubits, source: origin.call } : { id, type: 'gate', gate, qubits, source: origin.call, angle: this.angleTextOf(angle) }
+		);
+		this.origins.push(origin);
+		this.gatesMade++;
+	}
+
+	/**
+	 * The document's qubit list for flat qubits `qs` (one to three), shared by every item on the
+	 * same qubits in the same order: a large file has few distinct ones (treat as immutable).
+	 */
+	qubitList(qs: number[]): QubitRef[] {
+		const n = this.flatToRef.length + 1;
+		if (n > 100_000) return qs.map((q) => this.flatToRef[q]);
+		const key = qs.length === 1 ? qs[0] : qs.length === 2 ? n + qs[0] * n + qs[1] : n + n * n + (qs[0] * n + qs[1]) * n + qs[2];
+		let list = this.qubitLists.get(key);
+		if (list === undefined) {
+			list = qs.map((q) => this.flatToRef[q]);
+			if (this.qubitLists.size < 100_000) this.qubitLists.set(key, list);
+		}
+		return list;
+	}
+	private readonly qubitLists = new Map<number, QubitRef[]>();
+
+	private angleTextOf(angle: Num): string {
+		// Exported files repeat a few angles, and the reader hands out the same Num for each.
+		let text = this.angleTexts.get(angle);
+		if (text === undefined) {
+			text = angleText(numToAngle(angle));
+			if (this.angleTexts.size < 10_000) this.angleTexts.set(angle, text);
+		}
+		return text;
 	}
 
 	/**
@@ -119,7 +152,7 @@ export class GateEmitter {
 		else this.push('mcp', [...ctrls, t], o, a);
 	}
 
-	emit(o: Op, call: GateCall): void {
+	emit(o: Op): void {
 		const cs = o.ctrls;
 		switch (o.kind) {
 			case 'x':
@@ -152,7 +185,7 @@ export class GateEmitter {
 				else {
 					const [a, b] = o.t;
 					this.push('cx', [b, a], o);
-					this.emit({ ...o, kind: 'x', ctrls: [...cs, a], t: [b] }, call);
+					this.emit({ ...o, kind: 'x', ctrls: [...cs, a], t: [b] });
 					this.push('cx', [b, a], o);
 				}
 				return;
@@ -162,7 +195,7 @@ export class GateEmitter {
 				return;
 			case 'h':
 				if (cs.length === 0) this.push('h', [o.t[0]], o);
-				else this.emit({ ...o, kind: 'u', matrix: MATRICES.h }, call);
+				else this.emit({ ...o, kind: 'u', matrix: MATRICES.h });
 				return;
 			case 'u': {
 				const m = o.matrix!;
@@ -189,11 +222,11 @@ export class GateEmitter {
 				const v = matSqrt(m);
 				const last = cs[cs.length - 1];
 				const rest = cs.slice(0, -1);
-				this.emit({ ...o, ctrls: [last], matrix: v }, call);
-				this.emit({ ...o, kind: 'x', ctrls: rest, t: [last] }, call);
-				this.emit({ ...o, ctrls: [last], matrix: matDagger(v) }, call);
-				this.emit({ ...o, kind: 'x', ctrls: rest, t: [last] }, call);
-				this.emit({ ...o, ctrls: rest, matrix: v }, call);
+				this.emit({ ...o, ctrls: [last], matrix: v });
+				this.emit({ ...o, kind: 'x', ctrls: rest, t: [last] });
+				this.emit({ ...o, ctrls: [last], matrix: matDagger(v) });
+				this.emit({ ...o, kind: 'x', ctrls: rest, t: [last] });
+				this.emit({ ...o, ctrls: rest, matrix: v });
 				return;
 			}
 		}

@@ -36,19 +36,20 @@ export function importQasm(text: string, options: QasmImportOptions = {}): QasmI
 		const column = limits.maxBytes - before.lastIndexOf('\n');
 		throw new QasmError(line, column, `file is too large: ${text.length} characters exceeds the limit of ${limits.maxBytes}; the limit is crossed here`, file);
 	}
-	let tokens: TokenStream;
-	try {
-		tokens = lexQasmStream(text);
-	} catch (e) {
-		if (e instanceof QasmError) throw e.withFile(file);
-		throw e;
-	}
+	// Lexed as the reader goes (see TokenStream); a lexical error anywhere still wins over a reading error.
+	const tokens: TokenStream = lexQasmStream(text);
 	const r = new Reader(tokens, file, limits, options.defaultVersion ?? 3);
 	r.exactDecimals = options.exactDecimals ?? true;
 	r.params = new Map(Object.entries(options.params ?? {}));
 	try {
 		r.run();
 	} catch (e) {
+		try {
+			tokens.lexToEnd();
+		} catch (lexical) {
+			if (lexical instanceof QasmError) throw lexical.withFile(file);
+			throw lexical;
+		}
 		if (e instanceof QasmError) throw e.file === file ? e : e.withFile(file);
 		// Statements place their own RangeErrors; anything left is placed at the end of the file read.
 		if (e instanceof RangeError) {

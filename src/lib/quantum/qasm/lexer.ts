@@ -54,6 +54,7 @@ const isIdentPartCode = (c: number) => isIdentStartCode(c) || isDigit(c);
 /** Split OpenQASM text into tokens, skipping `//` and `/* … *\/` comments; ends with an `eof` token. */
 export function lexQasm(text: string): Token[] {
 	const s = lexQasmStream(text);
+	s.lexToEnd();
 	const out: Token[] = new Array(s.length);
 	for (let i = 0; i < s.length; i++) out[i] = s.at(i);
 	return out;
@@ -62,33 +63,37 @@ export function lexQasm(text: string): Token[] {
 const KIND_CODE: Record<TokenKind, number> = { ident: 0, int: 1, float: 2, string: 3, punct: 4, eof: 5 };
 const KIND_OF: TokenKind[] = ['ident', 'int', 'float', 'string', 'punct', 'eof'];
 const CACHE = 1024;
+const INITIAL_CAPACITY = 4096;
 
 /**
- * The tokens of a text in typed arrays (kind, offsets, line, column): a large file's half a million
- * tokens cost no objects until the reader looks at them, and those it looks at die young.
- * {@link TokenStream.at} makes the token object (recent ones are cached, so peeking is cheap).
+ * The tokens of a text in typed arrays (kind, offsets, line, column), lexed on demand: the reader
+ * asks for token i ({@link TokenStream.at}) and the text is read up to it. A token object is made
+ * only when the reader looks at it (recent ones are cached, so peeking is cheap). The reader's
+ * fast path for plain gate calls (`parser.ts`) reads those statements straight from the text and
+ * moves the lexer past them ({@link TokenStream.skipTo}), so they cost no tokens at all.
+ * Lexical errors keep their priority over the reader's: `importQasm` lexes the rest of the file
+ * ({@link TokenStream.lexToEnd}) before it reports a reading error, as when the file was lexed first.
  */
 export class TokenStream {
+	/** Tokens lexed so far (the last one is `eof` once {@link done}). */
 	length = 0;
-	private kinds: Uint8Array;
-	private starts: Int32Array;
-	private ends: Int32Array;
-	private lines: Int32Array;
-	private cols: Int32Array;
+	/** True once the `eof` token is lexed. */
+	done = false;
+	/** Where the lexer stands: offset in the text, line, and the offset where that line starts. */
+	offset = 0;
+	line = 1;
+	lineStart = 0;
+	private kinds = new Uint8Array(INITIAL_CAPACITY);
+	private starts = new Int32Array(INITIAL_CAPACITY);
+	private ends = new Int32Array(INITIAL_CAPACITY);
+	private lines = new Int32Array(INITIAL_CAPACITY);
+	private cols = new Int32Array(INITIAL_CAPACITY);
 	/** Token texts that are not the source slice (numbers with `_`, strings, eof). */
 	private readonly texts = new Map<number, string>();
 	private readonly cache: (Token | undefined)[] = new Array(CACHE);
 	private readonly cached = new Int32Array(CACHE).fill(-1);
 
-	constructor(private readonly text: string) {
-		// Exported files run a little under two characters per token: no growth for them.
-		const cap = ((text.length * 0.6) | 0) + 16;
-		this.kinds = new Uint8Array(cap);
-		this.starts = new Int32Array(cap);
-		this.ends = new Int32Array(cap);
-		this.lines = new Int32Array(cap);
-		this.cols = new Int32Array(cap);
-	}
+	constructor(readonly text: string) {}
 
 	/** Append a token; `text` only when it is not `source.slice(start, end)`. */
 	push(kind: TokenKind, start: number, end: number, line: number, column: number, text?: string): void {
@@ -117,8 +122,15 @@ export class TokenStream {
 		this.cols = g(this.cols, (n) => new Int32Array(n));
 	}
 
-	/** Token `i` (0 ≤ i < length). */
+	/** Token `i` (i ≥ 0), lexing up to it; past the end of the file, the `eof` token. */
 	at(i: number): Token {
+		while (i >= this.length) {
+			if (this.done) {
+				i = this.length - 1;
+				break;
+			}
+			lexNext(this);
+		}
 		const slot = i & (CACHE - 1);
 		if (this.cached[slot] === i) return this.cache[slot]!;
 		const start = this.starts[i];
@@ -128,15 +140,37 @@ export class TokenStream {
 		this.cached[slot] = i;
 		return t;
 	}
+
+	/** Lex the rest of the text (throws its first lexical error); returns the token count. */
+	lexToEnd(): number {
+		while (!this.done) lexNext(this);
+		return this.length;
+	}
+
+	/**
+	 * Move the lexer past text the caller has read itself (only when no token is lexed beyond the
+	 * caller's position): `offset` is the next character, on `line` starting at `lineStart`.
+	 */
+	skipTo(offset: number, line: number, lineStart: number): void {
+		this.offset = offset;
+		this.line = line;
+		this.lineStart = lineStart;
+	}
 }
 
-/** {@link lexQasm} into a {@link TokenStream}. */
+/** Split OpenQASM text into a {@link TokenStream}, lexed as it is read. */
 export function lexQasmStream(text: string): TokenStream {
-	const tokens = new TokenStream(text);
-	let i = 0;
-	let line = 1;
-	let lineStart = 0; // offset of the current line's first character (column = i − lineStart + 1)
+	return new TokenStream(text);
+}
+
+/** Lex one token (skipping whitespace and comments) at the stream's position; the `eof` token at the end. */
+function lexNext(tokens: TokenStream): void {
+	const text = tokens.text;
+	let i = tokens.offset;
+	let line = tokens.line;
+	let lineStart = tokens.lineStart; // offset of the current line's first character (column = i − lineStart + 1)
 	const n = text.length;
+	const before = tokens.length;
 	while (i < n) {
 		const c = text.charCodeAt(i);
 		if (c === 10) {
@@ -174,7 +208,7 @@ export function lexQasmStream(text: string): TokenStream {
 			while (j < n && isIdentPartCode(text.charCodeAt(j))) j++;
 			tokens.push('ident', start, j, line, col);
 			i = j;
-			continue;
+			break;
 		}
 		if (isDigit(c) || (c === 46 && isDigit(text.charCodeAt(i + 1)))) {
 			// digits[_digits] [. digits] [e[+-]digits]
@@ -209,7 +243,7 @@ export function lexQasmStream(text: string): TokenStream {
 			}
 			tokens.push(isFloat ? 'float' : 'int', start, j, line, col, underscore ? text.slice(i, j).replace(/_/g, '') : undefined);
 			i = j;
-			continue;
+			break;
 		}
 		if (c === 34 || c === 39) {
 			let j = i + 1;
@@ -217,7 +251,7 @@ export function lexQasmStream(text: string): TokenStream {
 			if (j >= n || text.charCodeAt(j) !== c) throw new QasmError(line, col, `unterminated string: expected a closing ${text[i]} on the same line`);
 			tokens.push('string', start, j + 1, line, col, text.slice(i + 1, j));
 			i = j + 1;
-			continue;
+			break;
 		}
 		// Most punctuation is one character that starts no longer one: no search.
 		let p: string | undefined = c < 128 ? SINGLE_PUNCT[c] : undefined;
@@ -233,10 +267,15 @@ export function lexQasmStream(text: string): TokenStream {
 		if (p) {
 			tokens.push('punct', start, i + p.length, line, col);
 			i += p.length;
-			continue;
+			break;
 		}
 		throw new QasmError(line, col, `unexpected character "${String.fromCodePoint(text.codePointAt(i)!)}"`);
 	}
-	tokens.push('eof', n, n, line, i - lineStart + 1, '');
-	return tokens;
+	if (i >= n && tokens.length === before) {
+		tokens.push('eof', n, n, line, i - lineStart + 1, '');
+		tokens.done = true;
+	}
+	tokens.offset = i;
+	tokens.line = line;
+	tokens.lineStart = lineStart;
 }

@@ -7,14 +7,52 @@
  * Qubit order: registers are numbered flat in declaration order; q[0] is bit 0 (LSB) of q.
  * Angles: expressions in radians (`Num`).
  */
-import { CIRCUIT_FORMAT, CIRCUIT_VERSION, type BodyItem, type CircuitDocument, type QubitRef } from '../circuit.js';
+import { CIRCUIT_FORMAT, CIRCUIT_VERSION, type BodyItem, type CircuitDocument, type GateItem, type QubitRef } from '../circuit.js';
 import { lexQasm, QasmError, type Token, type TokenStream } from './lexer.js';
 import { evaluateTokens, exactNum, numToInteger, readPrintedAngle, type Num, type NumScope } from './expr.js';
 import { BudgetExceeded, shortInteger, WorkBudget } from '../budget.js';
-import { BUILTINS, builtinAvailable, op, type Builtin } from './gates.js';
+import { BUILTINS, builtinAvailable, HALF_PI, neg, op, PI, QUARTER_PI, type Builtin } from './gates.js';
 import { Expander, type GateCall, type GateDef, type Modifier } from './expand.js';
 import { GateEmitter } from './emit.js';
 import type { GateOrigin, PrintedAngleStats, QasmLimits, QasmWarning } from './types.js';
+
+/** Standard gates the fast path reads (any with qubits, except `id`, which makes no gate). */
+const FAST_BUILTINS = new Map<string, { name: string; builtin: Builtin; plain: (typeof PLAIN_GATES)[string] | undefined }>();
+/**
+ * Standard gates that are one document gate as written (`emit.ts` makes the same item from their
+ * ops): the item's gate, and its angle (the call's parameter, or a fixed one). Others are built.
+ */
+const PLAIN_GATES: Record<string, { gate: GateItem['gate']; angle?: Num | 'param' }> = {
+	x: { gate: 'x' },
+	h: { gate: 'h' },
+	cx: { gate: 'cx' },
+	CX: { gate: 'cx' },
+	ccx: { gate: 'ccx' },
+	swap: { gate: 'swap' },
+	u1: { gate: 'p', angle: 'param' },
+	p: { gate: 'p', angle: 'param' },
+	phase: { gate: 'p', angle: 'param' },
+	rz: { gate: 'rz', angle: 'param' },
+	cp: { gate: 'cp', angle: 'param' },
+	cu1: { gate: 'cp', angle: 'param' },
+	cphase: { gate: 'cp', angle: 'param' },
+	z: { gate: 'p', angle: PI },
+	cz: { gate: 'cp', angle: PI },
+	s: { gate: 'p', angle: HALF_PI },
+	sdg: { gate: 'p', angle: neg(HALF_PI) },
+	t: { gate: 'p', angle: QUARTER_PI },
+	tdg: { gate: 'p', angle: neg(QUARTER_PI) }
+};
+/** The reader's fast path for plain gate calls (tests turn it off to compare with the token path). */
+export const FAST_PATH = { enabled: true, /** statements it has read (for the tests) */ read: 0 };
+/** Origins of gates read by the fast path share this (no gate definitions were expanded). */
+const NO_DEFINITIONS: GateOrigin['definitions'] = Object.freeze([]) as unknown as GateOrigin['definitions'];
+for (const [name, builtin] of Object.entries(BUILTINS)) if (builtin.qubits > 0 && name !== 'id') FAST_BUILTINS.set(name, { name, builtin, plain: PLAIN_GATES[name] });
+const isAsciiIdentStart = (c: number) => (c >= 97 && c <= 122) || (c >= 65 && c <= 90) || c === 95;
+const isAsciiIdentPart = (c: number) => isAsciiIdentStart(c) || (c >= 48 && c <= 57);
+/** Characters a fast-path parameter may hold: names, numbers, + - * / . ( ) and blanks. */
+const PARAM_CHAR = new Uint8Array(128);
+for (const ch of 'abcdefghijklmnopqrstuvwxyzABCDEFGHIJKLMNOPQRSTUVWXYZ_0123456789.+-*/() \t') PARAM_CHAR[ch.charCodeAt(0)] = 1;
 
 const RESERVED_WORDS = new Set(['OPENQASM', 'include', 'qreg', 'creg', 'qubit', 'bit', 'gate', 'opaque', 'measure', 'reset', 'barrier', 'if', 'const', 'ctrl', 'negctrl', 'inv', 'pow']);
 const UNSUPPORTED_3 = new Set(['for', 'while', 'def', 'defcal', 'cal', 'defcalgrammar', 'box', 'delay', 'let', 'input', 'output', 'return', 'extern', 'switch', 'break', 'continue', 'end', 'array', 'duration', 'stretch', 'complex']);
@@ -70,11 +108,11 @@ export class Reader {
 		if (this.warnings.length < 1000) this.warnings.push({ line: t.line, column: t.column, message: msg });
 	}
 	private peek(k = 0): Token {
-		return this.tokens.at(Math.min(this.pos + k, this.tokens.length - 1));
+		return this.tokens.at(this.pos + k);
 	}
 	private next(): Token {
 		const t = this.tokens.at(this.pos);
-		if (this.pos < this.tokens.length - 1) this.pos++;
+		if (t.kind !== 'eof') this.pos++;
 		return t;
 	}
 	private isP(text: string, k = 0): boolean {
@@ -125,6 +163,7 @@ export class Reader {
 	}
 	/** A gate parameter (radians): a lone printed decimal may be read as the exact angle it prints. */
 	angleParam(tokens: Token[], scope: NumScope): Num {
+		this.lastDecimal = 0;
 		const signed = tokens.length === 2 && tokens[0].kind === 'punct' && (tokens[0].text === '-' || tokens[0].text === '+');
 		const lit = tokens.length === 1 ? tokens[0] : signed ? tokens[1] : null;
 		if (lit && lit.kind === 'float') {
@@ -137,6 +176,8 @@ export class Reader {
 				p = readPrintedAngle(lit.text, negative);
 				if (this.printedCache.size < 100_000) this.printedCache.set(key, p);
 			}
+			this.lastDecimal = p ? 1 : 2;
+			this.lastDecimalDiff = p ? p.differenceRadians : 0;
 			if (fresh) {
 				if (p) {
 					this.decimals.exact++;
@@ -147,6 +188,152 @@ export class Reader {
 		}
 		return this.evaluate(tokens, scope);
 	}
+	/**
+	 * A top-level gate parameter, remembered by its source text for {@link fastCall} when its value
+	 * depends on nothing the file may change (no constant or parameter names) and it warned nothing.
+	 */
+	private cachedParam(ex: Token[]): Num {
+		const warned = this.warnings.length;
+		const v = this.angleParam(ex, this.consts);
+		if (this.warnings.length !== warned || this.paramCache.size >= 10_000) return v;
+		for (const t of ex) if (t.kind === 'string' || (t.kind === 'ident' && this.consts.has(t.text))) return v;
+		const key = this.tokens.text.slice(ex[0].start, ex[ex.length - 1].end);
+		if (!this.paramCache.has(key)) this.paramCache.set(key, { value: v, decimal: this.lastDecimal, difference: this.lastDecimalDiff });
+		return v;
+	}
+
+	/**
+	 * The fast path for the statement most files are made of, `name(params) reg[i], reg[j];`: read
+	 * straight from the text (no tokens), for a standard gate on literal indices whose parameter
+	 * texts were read before (`paramCache`). Anything else, or anything wrong, returns false with
+	 * nothing changed, and the statement is read by the tokens (which word every message).
+	 * Items, origins, printed-angle counts and limits come out as {@link topLevelCall} makes them.
+	 */
+	private fastCall(): boolean {
+		const ts = this.tokens;
+		const text = ts.text;
+		const n = text.length;
+		let i = ts.offset;
+		let line = ts.line;
+		let lineStart = ts.lineStart;
+		let c = 0;
+		// Whitespace, line breaks and // comments before the statement.
+		for (;;) {
+			if (i >= n) return false;
+			c = text.charCodeAt(i);
+			if (c === 10) {
+				line++;
+				lineStart = ++i;
+			} else if (c === 32 || c === 9 || c === 13) i++;
+			else if (c === 47 && text.charCodeAt(i + 1) === 47) while (i < n && text.charCodeAt(i) !== 10) i++;
+			else break;
+		}
+		const nameStart = i;
+		if (!isAsciiIdentStart(c)) return false;
+		while (++i < n && isAsciiIdentPart((c = text.charCodeAt(i))));
+		if (c >= 128) return false;
+		const fast = FAST_BUILTINS.get(text.slice(nameStart, i));
+		if (fast === undefined || !builtinAvailable(fast.builtin, this.version, this.included)) return false;
+		const name = fast.name;
+		const b = fast.builtin;
+		if (this.defs.size && this.defs.has(name)) return false;
+		while (c === 32 || c === 9) c = text.charCodeAt(++i);
+		// Parameters: texts seen before, split at commas outside parentheses.
+		const params = this.fastParams;
+		params.length = 0;
+		if (c === 40) {
+			let depth = 0;
+			let from = i + 1;
+			for (;;) {
+				c = text.charCodeAt(++i);
+				if (c === 40) depth++;
+				else if (c === 41 || (c === 44 && depth === 0)) {
+					if (c === 41 && depth-- > 0) continue;
+					let a = from;
+					let z = i;
+					while (a < z && (text.charCodeAt(a) === 32 || text.charCodeAt(a) === 9)) a++;
+					while (z > a && (text.charCodeAt(z - 1) === 32 || text.charCodeAt(z - 1) === 9)) z--;
+					if (a === z) return false;
+					const p = this.paramCache.get(text.slice(a, z));
+					if (p === undefined) return false;
+					params.push(p);
+					from = i + 1;
+					if (c === 41) break;
+				} else if (!PARAM_CHAR[c] || (c === 47 && (text.charCodeAt(i + 1) === 47 || text.charCodeAt(i + 1) === 42))) return false;
+			}
+			c = text.charCodeAt(++i);
+			while (c === 32 || c === 9) c = text.charCodeAt(++i);
+		}
+		if (params.length !== b.params) return false;
+		// Qubit arguments reg[int], at least one.
+		const qs: number[] = [];
+		for (;;) {
+			const regStart = i;
+			if (!isAsciiIdentStart(c)) return false;
+			while (++i < n && isAsciiIdentPart((c = text.charCodeAt(i))));
+			if (c >= 128) return false;
+			const regName = text.slice(regStart, i);
+			const r = this.regByName.get(regName);
+			if (r === undefined || (this.aliases.size && this.aliases.has(regName))) return false;
+			while (c === 32 || c === 9) c = text.charCodeAt(++i);
+			if (c !== 91) return false;
+			c = text.charCodeAt(++i);
+			while (c === 32 || c === 9) c = text.charCodeAt(++i);
+			if (c < 48 || c > 57) return false;
+			let index = 0;
+			while (c >= 48 && c <= 57 && index < 1e9) {
+				index = index * 10 + (c - 48);
+				c = text.charCodeAt(++i);
+			}
+			while (c === 32 || c === 9) c = text.charCodeAt(++i);
+			if (c !== 93 || index >= r.size) return false;
+			const q = r.offset + index;
+			for (let k = 0; k < qs.length; k++) if (qs[k] === q) return false;
+			qs.push(q);
+			c = text.charCodeAt(++i);
+			while (c === 32 || c === 9) c = text.charCodeAt(++i);
+			if (c === 44) {
+				c = text.charCodeAt(++i);
+				while (c === 32 || c === 9) c = text.charCodeAt(++i);
+				continue;
+			}
+			if (c !== 59) return false;
+			break;
+		}
+		if (qs.length !== b.qubits || this.emitter.gatesMade + 1 > this.limits.maxGates) return false;
+		// Read: move the lexer past the statement and make what the token path makes.
+		ts.skipTo(i + 1, line, lineStart);
+		FAST_PATH.read++;
+		for (let k = 0; k < params.length; k++) {
+			const p = params[k];
+			if (p.decimal === 1) {
+				this.decimals.exact++;
+				if (p.difference > this.decimals.largestDifferenceRadians) this.decimals.largestDifferenceRadians = p.difference;
+			} else if (p.decimal === 2) this.decimals.inexact++;
+		}
+		const origin: GateOrigin = { qasm: name, call: { line, column: nameStart - lineStart + 1 }, definitions: NO_DEFINITIONS };
+		const plain = fast.plain;
+		try {
+			if (plain !== undefined) {
+				this.emitter.pushPlain(plain.gate, this.emitter.qubitList(qs), origin, plain.angle === 'param' ? params[0].value : plain.angle);
+				return true;
+			}
+			const values: Num[] = new Array(params.length);
+			for (let k = 0; k < params.length; k++) values[k] = params[k].value;
+			const ops = b.build(values, qs, origin);
+			for (let k = 0; k < ops.length; k++) this.emitter.emit(ops[k]);
+		} catch (e) {
+			if (e instanceof RangeError) this.err(e instanceof BudgetExceeded && e.site && 'line' in e.site ? e.site : origin.call, e.message);
+			throw e;
+		}
+		return true;
+	}
+	private readonly fastParams: { value: Num; decimal: number; difference: number }[] = [];
+	/** Gate parameter source text → value and how it counts as a printed decimal (0 not one, 1 exact, 2 inexact). */
+	private readonly paramCache = new Map<string, { value: Num; decimal: number; difference: number }>();
+	private lastDecimal = 0;
+	private lastDecimalDiff = 0;
+
 	private intExpr(tokens: Token[], what: string, min: number, max: number): number {
 		const v = numToInteger(this.evaluate(tokens, this.consts));
 		if (v === null) this.err(tokens[0], `${what} must be an integer`);
@@ -508,12 +695,16 @@ export class Reader {
 		}
 		if ((ty.text === 'int' || ty.text === 'uint') && numToInteger(v) === null) this.err(nameTok, `--param ${nameTok.text}=${text} must be an integer`);
 		this.consts.set(nameTok.text, v);
+		this.paramCache.clear();
 		void kw;
 	}
 
 	run(): void {
 		this.readHeader();
-		while (this.peek().kind !== 'eof') {
+		for (;;) {
+			// Plain gate calls are read straight from the text when no token is lexed ahead.
+			if (FAST_PATH.enabled && this.pos === this.tokens.length && !this.tokens.done && this.fastCall()) continue;
+			if (this.peek().kind === 'eof') break;
 			this.statementTok = this.peek();
 			try {
 				this.statement();
@@ -631,7 +822,7 @@ export class Reader {
 		for (const q of qargs)
 			for (const flat of this.qubitsOf(q)) {
 				const origin: GateOrigin = { qasm: 'reset', call: { line: kw.line, column: kw.column }, definitions: [] };
-				this.emitter.emit(op('reset', [flat], origin), { mods: [], name: 'reset', nameTok: kw, params: [], qargs: [q] });
+				this.emitter.emit(op('reset', [flat], origin));
 			}
 		if (!this.resetNoted) {
 			this.resetNoted = true;
@@ -757,6 +948,7 @@ export class Reader {
 		this.expectP(';', `the declaration of "${nameTok.text}"`);
 		if (!isConst) this.warn(first, `"${nameTok.text}" is read as a constant (it is never reassigned here)`);
 		this.consts.set(nameTok.text, v);
+		this.paramCache.clear();
 	}
 
 	private modifiers(): Modifier[] {
@@ -950,7 +1142,7 @@ export class Reader {
 			}
 			lists.push(all);
 		}
-		const params = call.params.map((ex) => this.angleParam(ex, this.consts));
+		const params = call.params.map((ex) => this.cachedParam(ex));
 		const start = this.emitter.items.length;
 		for (let k = 0; k < width; k++) {
 			const qs = lists.map((l) => (l.length === 1 ? l[0] : l[k]));
@@ -964,7 +1156,7 @@ export class Reader {
 			const origin: GateOrigin = { qasm: call.name, call: { line: call.nameTok.line, column: (call.mods[0]?.tok ?? call.nameTok).column }, definitions: [] };
 			if (call.mods.length) origin.call.column = call.mods[0].tok.column;
 			const ops = this.expander.expandCall(call, params, qs, origin, this.emitter.gatesMade);
-			for (const o of ops) this.emitter.emit(o, call);
+			for (const o of ops) this.emitter.emit(o);
 		}
 		// Only a broadcast over a whole declared register is compacted (not over an alias or a slice).
 		const whole = call.qargs.find((q) => !q.index && !this.aliases.has(q.name) && (this.regByName.get(q.name)?.size ?? 0) > 1);
