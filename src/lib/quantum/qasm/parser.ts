@@ -216,7 +216,7 @@ export class Reader {
 		let i = ts.offset;
 		let line = ts.line;
 		let lineStart = ts.lineStart;
-		let c = 0;
+		let c: number;
 		// Whitespace, line breaks and // comments before the statement.
 		for (;;) {
 			if (i >= n) return false;
