@@ -113,6 +113,10 @@ test('the planted-fault demo diverges on b[3] at the faulty rotation, and the di
 	const row = page.locator('[data-testid=qubit-table] tr[data-qubit="b[3]"]');
 	await expect(row.locator('[data-col=actual]')).toHaveText('1/16');
 	await expect(row.locator('[data-col=expected]')).toHaveText('1/8');
+	// Arriving at the divergence selects the diverging qubit: the ledger lists b[3] at once.
+	await page.getByRole('tab', { name: 'Ledger' }).click();
+	await expect(page.getByTestId('ledger')).toContainText('Angle ledger · b[3]');
+	await expect(page.getByTestId('ledger')).toContainText('parts from the expected angle at step');
 
 	// The dial canvas is not blank: sample its pixels for more than the background colour.
 	await page.waitForTimeout(500);

@@ -96,6 +96,9 @@ export class RunSession {
 		this.lastSeekReason = res.reason;
 		this.lastBreakpointId = res.breakpointId;
 		await this.goto(res.step);
+		// Arriving at a divergence with nothing selected: select the diverging qubit, so its values
+		// are written on the board and the ledger lists its contributions at once.
+		if (kind === 'divergence' && this.selectedQubit === null && this.frame?.step === res.step && this.frame.diverged.length) await this.select(this.frame.diverged[0]);
 	}
 
 	async gates(from: number, to: number): Promise<GateRow[]> {
