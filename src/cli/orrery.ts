@@ -125,7 +125,7 @@ function printCheck(r: CheckReport, path: string, io: Io, readFlags = ''): void 
 	if (r.domain.conditions.length) lines.push(`  domain: ${r.domain.conditions.join(' and ')} (${r.domain.count} of ${r.domain.total} basis inputs)`);
 	lines.push(`  method: ${r.method}; proof: ${r.proof.status}${r.proof.prover ? ` by the ${r.proof.prover === 'fourier' ? 'Fourier-form' : 'general'} prover` : ''}${r.proof.reason && r.proof.status !== 'undecided' ? ` (${r.proof.reason})` : ''}; phases ${r.phases}`);
 	if (r.proof.counterexample) lines.push(`  step it: npm run orrery -- run ${path}${readFlags} --input ${fmt(r.proof.counterexample)}`);
-	for (const m of r.proof.bitMismatches.slice(0, 10)) lines.push(`  ${m.qubit} ends holding ${m.holds}; needs ${m.expected} (e.g. input ${fmt(m.input)}; lines ${m.lines.join(', ') || '–'})`);
+	for (const m of r.proof.bitMismatches.slice(0, 10)) lines.push(`  ${m.qubit} ${m.atStep ? `holds ${m.holds} at step ${m.atStep}` : `ends holding ${m.holds}`}; needs ${m.expected} (e.g. input ${fmt(m.input)}; lines ${m.lines.join(', ') || '–'})`);
 	for (const t of r.proof.phaseTerms.slice(0, 10)) lines.push(`  phase term ${t.turns} · ${t.term} on the whole state (lines ${t.lines.join(', ') || '–'})`);
 	for (const s of r.proof.sections) lines.push(`  section on ${s.register}: QFT gates ${s.qftGates.join('–')}, inverse ${s.iqftGates.join('–')}, layout ${s.layout}`);
 	for (const f of r.failures.slice(0, 10))
@@ -154,6 +154,7 @@ const fmt = (o: Record<string, string>) => Object.entries(o).map(([k, v]) => `${
 function printRun(r: RunReport, io: Io): void {
 	const lines = [`engine: ${r.engine}; after ${r.step} of ${plural(r.gateCount, 'gate')} (simulated, not a hardware run)`];
 	if (r.handoverReason) lines.push(`  handed over to the amplitude engine at gate ${r.handedOverAt}: ${r.handoverReason}`);
+	if (r.resetFailure) lines.push(`  FAILED CLAIM: ${resetFailureText(r.resetFailure)}; the run went on with the state as it was`);
 	if (r.nearClassical)
 		lines.push(`  note: ${r.nearClassical.count} H gate${r.nearClassical.count === 1 ? '' : 's'} read an inexact phase within 1e-6 turn of 0 or ½ as a classical bit (probability dropped ≤ ${r.nearClassical.droppedProbability.toExponential(1)})`);
 	for (const reg of r.registers) lines.push(`  ${reg.name} = ${reg.values.map((v) => `${v.value} (p=${v.probability.toPrecision(6)})`).join(', ')}`);

@@ -63,6 +63,7 @@ describe('reset read as a checked claim', () => {
 		}
 		const m = r.proof.bitMismatches.find((x) => x.qubit === 'anc[0]')!;
 		expect(m.expected).toContain('reset at step 3 (line 9)');
+		expect(m.atStep).toBe(3);
 		expect(m.holds).toBe('a[0]*c[0]');
 		expect(m.lines).toEqual([7, 9]);
 		expect(m.input).toMatchObject({ a: '1', c: '1' });
@@ -103,6 +104,9 @@ describe('reset read as a checked claim', () => {
 		const rep = runBasisInput(c, new Map([['a', 1n], ['c', 1n], ['b', 0n]]), { engine: 'ledger' });
 		expect(rep.registers.find((x) => x.name === 'b')!.values[0]).toEqual({ value: '1', probability: 1 });
 		expect(rep.registers.find((x) => x.name === 'anc')!.values[0]).toEqual({ value: '0', probability: 1 });
+		expect(rep.resetFailure).toEqual({ gate: 2, line: 9, qubit: 'anc[0]', p1: 1 });
+		expect(runBasisInput(c, new Map([['a', 1n], ['c', 0n]]), { engine: 'ledger' }).resetFailure).toBeUndefined();
+		expect(runBasisInput(c, new Map([['a', 1n], ['c', 1n]]), { engine: 'amplitudes' }).resetFailure).toMatchObject({ gate: 2, line: 9, qubit: 'anc[0]' });
 	});
 
 	it('stepping in the workbench: a failed claim is a divergence on the ancilla right after the reset, in both engines', () => {

@@ -6,6 +6,7 @@
 import { applyLedgerGate, buildLedgerTables, createLedgerState, entanglingReason, LedgerKind, ledgerPhase, ledgerToAmplitudes } from '../ledger.js';
 import { applyLoweredGates, blochVector, buildGateTables, registerDistribution, AMPLITUDE_QUBIT_LIMITS } from '../amplitudes.js';
 import { formatTurns } from '../angle.js';
+import type { ResetFailure } from '../amplitudes.js';
 import { qubitLabel, type LoweredCircuit } from '../circuit.js';
 
 /** Frame of one qubit at the step read. */
@@ -32,6 +33,8 @@ export interface RunReport {
 	nearClassical?: { count: number; droppedProbability: number };
 	registers: { name: string; values: { value: string; probability: number }[] }[];
 	frames: QubitReadout[];
+	/** The first reset (up to the step read) whose claim "this qubit is |0⟩ here" failed. */
+	resetFailure?: { gate: number; line: number | null; qubit: string; p1: number };
 }
 
 /** Run `values` (register → starting value, others 0) up to `step` gates. */
@@ -70,7 +73,7 @@ export function runBasisInput(c: LoweredCircuit, values: Map<string, bigint>, op
 		}
 		const registers = c.registers.map((r) => ({ name: r.name, values: productDistribution(p1.subarray(r.offset, r.offset + r.size)) }));
 		const near = ls.nearCollapses ? { nearClassical: { count: ls.nearCollapses, droppedProbability: ls.dropped } } : {};
-		return { engine: 'ledger', step, gateCount: c.gateCount, handedOverAt: null, ...near, registers, frames };
+		return { engine: 'ledger', step, gateCount: c.gateCount, handedOverAt: null, ...near, registers, frames, ...resetOf(c, ls.resetFailure) };
 	}
 	const sv = ledgerToAmplitudes(ls, lt, maxQ);
 	applyLoweredGates(sv, c, buildGateTables(c), g, step);
@@ -99,7 +102,12 @@ export function runBasisInput(c: LoweredCircuit, values: Map<string, bigint>, op
 		return { name: r.name, values: vals.slice(0, 16) };
 	});
 	const why = opts.engine === 'ledger' ? { handoverReason: entanglingReason(ls, c, g) } : {};
-	return { engine: 'amplitudes', step, gateCount: c.gateCount, handedOverAt: opts.engine === 'ledger' ? g : null, ...why, registers, frames };
+	return { engine: 'amplitudes', step, gateCount: c.gateCount, handedOverAt: opts.engine === 'ledger' ? g : null, ...why, registers, frames, ...resetOf(c, sv.resetFailure ?? null) };
+}
+
+function resetOf(c: LoweredCircuit, f: ResetFailure | null): Pick<RunReport, 'resetFailure'> {
+	if (!f) return {};
+	return { resetFailure: { gate: f.gate, line: c.itemSources[c.itemOf[f.gate]]?.line ?? null, qubit: qubitLabel(c.registers, f.qubit), p1: f.p1 } };
 }
 
 /** Most likely values of independent bits (up to 16 values, probabilities as products). */

@@ -46,6 +46,8 @@ export interface BitMismatch {
 	input: Record<string, string>;
 	gates: number[];
 	lines: number[];
+	/** Set when the bit is wrong at a reset (the step after it), not at the end. */
+	atStep?: number;
 }
 
 /** A term of the global phase that depends on the input (the phase must be constant over the domain). */
@@ -432,7 +434,8 @@ export function symbolicProve(c: LoweredCircuit, goal: SymbolicGoal): SymbolicRe
 							expected: where,
 							input: values(a),
 							gates: [...writers[q], g],
-							lines: linesOf([...writers[q], g])
+							lines: linesOf([...writers[q], g]),
+							atStep: g + 1
 						});
 						if (result.counterexamples.length < 3) result.counterexamples.push(values(a));
 					}
