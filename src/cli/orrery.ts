@@ -249,8 +249,16 @@ export function main(argv: string[], io: Io = nodeIo): number {
 				});
 				if (a.qubitCount !== b.qubitCount - ancQubits.length)
 					throw new UsageError(`${rest[0]} has ${a.qubitCount} qubits and ${rest[1]} has ${b.qubitCount}${ancQubits.length ? ` (${ancQubits.length} of them ancillas)` : ''}; they must match`);
-				const ua = circuitUnitary(a);
-				const { unitary: ub, leak } = restrictToCleanAncillas(circuitUnitary(b), ancQubits);
+				const unitaryOf = (c: LoweredCircuit, file: string) => {
+					try {
+						return circuitUnitary(c);
+					} catch (e) {
+						if (e instanceof RangeError) throw new UsageError(`${file}: ${e.message}`);
+						throw e;
+					}
+				};
+				const ua = unitaryOf(a, rest[0]);
+				const { unitary: ub, leak } = restrictToCleanAncillas(unitaryOf(b, rest[1]), ancQubits);
 				const distance = unitaryDistance(ua, ub);
 				const ok = distance <= 1e-9 && leak <= 1e-9;
 				if (json) io.out(JSON.stringify({ ok, distance, ancillaLeak: leak, qubits: a.qubitCount, note: 'compared as unitaries up to global phase; simulated, not a hardware run' }));

@@ -6,7 +6,7 @@
  * column by column: column j is the circuit applied to |j⟩, entries interleaved (re, im).
  */
 import { buildGateTables, applyLoweredGates, createState, setBasisState } from '../amplitudes.js';
-import type { LoweredCircuit } from '../circuit.js';
+import { GateCode, type LoweredCircuit } from '../circuit.js';
 
 /** Largest circuit whose unitary we build (2^10 columns of 2^10 amplitudes). */
 export const MAX_UNITARY_QUBITS = 10;
@@ -20,6 +20,13 @@ export interface DenseUnitary {
 /** Unitary of a lowered circuit (≤ 10 qubits), from the amplitude engine run on every basis state. */
 export function circuitUnitary(c: LoweredCircuit): DenseUnitary {
 	if (c.qubitCount > MAX_UNITARY_QUBITS) throw new RangeError(`unitary of ${c.qubitCount} qubits is too large (limit ${MAX_UNITARY_QUBITS})`);
+	// A reset is a claim about the state (the qubit is |0⟩ there), not a gate: a circuit holding one has
+	// no unitary to compare, and treating it as the identity would hide a failed claim.
+	for (let g = 0; g < c.gateCount; g++)
+		if (c.kinds[g] === GateCode.reset) {
+			const line = c.itemSources[c.itemOf[g]]?.line;
+			throw new RangeError(`step ${g + 1}${line ? ` (line ${line})` : ''} is a reset, a claim that the qubit is |0⟩ there, not a gate: a circuit with resets has no unitary to compare; check it against its spec instead`);
+		}
 	const t = buildGateTables(c);
 	const dim = 1 << c.qubitCount;
 	const columns: Float64Array[] = [];

@@ -6,6 +6,7 @@ import { GateCode } from '../circuit.js';
 import { checkCircuit, type CheckReport } from './index.js';
 import { runBasisInput } from './run-input.js';
 import { Run } from '../run.js';
+import { circuitUnitary } from './equivalence.js';
 
 // `reset` on an ancilla is read as a checked claim: "this qubit is |0⟩ here" (issue 13). The
 // OpenQASM 3 specification defines reset as a non-unitary operation that puts the qubit in |0⟩;
@@ -123,6 +124,7 @@ describe('reset read as a checked claim', () => {
 	});
 
 	it('reset is refused where it has no meaning, with its position', () => {
+		expect(() => circuitUnitary(lowerCircuit(importQasm(clean).document))).toThrow(/step 4 \(line 10\) is a reset/);
 		expect(() => importQasm('OPENQASM 3.0;\ninclude "stdgates.inc";\nqubit q;\ngate g a { reset a; }\n')).toThrow(/4:12: "reset" is not allowed inside a gate definition/);
 		expect(() => importQasm('OPENQASM 3.0;\nqubit q;\nreset;\n')).toThrow(/3:6: expected a qubit or register after reset/);
 		expect(() => importQasm('OPENQASM 3.0;\nqubit[2] q;\nctrl @ reset q[0], q[1];\n')).toThrow(/3:8: reset is not a gate/);
