@@ -22,6 +22,12 @@
  * barrier. Qubit order: {register, index}, index 0 = LSB. Angles: turns (document strings).
  * Work: bounded by `maxWork` gate visits (a region is tried from each CNOT, at most
  * `maxRegion` gates long).
+ *
+ * Speed (a large file is hundreds of thousands of gates): the gates live in parallel arrays (kind,
+ * qubits, angle; rewritten gates are appended), each pass is a list of indices into them, a region
+ * is first only checked (CNOT parities) and rewritten once it is known to close, and a gate is
+ * tried for cancellation only when a rewritten gate lies within its window. `peephole-reference.ts`
+ * is the plain version the tests compare this one against.
  */
 import { addAngles, dyadic, parseAngle, scaleAngle, type Angle } from '../angle.js';
 import type { BodyItem, CircuitDocument, GateItem, QubitRef } from '../circuit.js';
@@ -57,22 +63,18 @@ export interface PeepholeResult {
 	report: PeepholeReport;
 }
 
-type Kind = 'diag' | 'cx' | 'h' | 'other' | 'barrier';
-interface G {
-	item: BodyItem;
-	kind: Kind;
-	qs: number[];
-	/** Diagonal gates: the angle in turns (rz read as p). */
-	angle?: Angle;
-	/** Made by a region rewrite (only pairs with at least one such gate are cancelled). */
-	made?: boolean;
-}
+// Gate kinds.
+const DIAG = 0;
+const CX = 1;
+const H = 2;
+const OTHER = 3;
+const BARRIER = 4;
 
-const EIGHTH = dyadic(1n, 3);
-const MINUS_EIGHTH = dyadic(-1n, 3);
+export const EIGHTH = dyadic(1n, 3);
+export const MINUS_EIGHTH = dyadic(-1n, 3);
 
 /** Document angle string → angle; fast path for the importer's own `"k/2^m turn"` form. */
-function readAngle(text: string): Angle {
+export function readAngle(text: string): Angle {
 	const cached = angleCache.get(text);
 	if (cached) return cached;
 	const m = /^(\d+)\/2\^(\d+) turn$/.exec(text);
@@ -84,12 +86,65 @@ function readAngle(text: string): Angle {
 const angleCache = new Map<string, Angle>();
 
 /** Document angle string for an angle in turns (same form as the importer writes). */
-function angleString(a: Angle): string {
+export function angleString(a: Angle): string {
 	if (!a.exact) return `~${a.turns}`;
 	return a.num === 0n ? '0 turn' : `${a.num}/2^${a.exp} turn`;
 }
 
-const isZero = (a: Angle) => a.exact && a.num === 0n;
+export const isZero = (a: Angle) => a.exact && a.num === 0n;
+
+/**
+ * The gates: entries 0 … n−1 are the document's body items in order (read in place), rewritten
+ * gates are appended. `qs` arrays are shared between entries with the same qubits (never changed).
+ */
+class Gates {
+	readonly qs: number[][];
+	readonly angle: (Angle | undefined)[];
+	kind: Uint8Array;
+	made: Uint8Array;
+	private readonly extra: BodyItem[] = [];
+	length: number;
+	constructor(private readonly body: BodyItem[]) {
+		const n = body.length;
+		this.qs = new Array(n);
+		this.angle = new Array(n);
+		this.kind = new Uint8Array(n + 64);
+		this.made = new Uint8Array(n + 64);
+		this.length = n;
+	}
+	/** Set base entry g (a body item). */
+	set(g: number, kind: number, qs: number[], angle: Angle | undefined): void {
+		this.kind[g] = kind;
+		this.qs[g] = qs;
+		this.angle[g] = angle;
+	}
+	/** Append a rewritten gate; returns its entry. */
+	add(item: BodyItem, kind: number, qs: number[], angle: Angle | undefined, made: boolean): number {
+		const g = this.length++;
+		if (g === this.kind.length) {
+			const k = new Uint8Array(g * 2);
+			k.set(this.kind);
+			this.kind = k;
+			const m = new Uint8Array(g * 2);
+			m.set(this.made);
+			this.made = m;
+		}
+		this.kind[g] = kind;
+		this.made[g] = made ? 1 : 0;
+		this.qs[g] = qs;
+		this.angle[g] = angle;
+		this.extra.push(item);
+		return g;
+	}
+	item(g: number): BodyItem {
+		return g < this.body.length ? this.body[g] : this.extra[g - this.body.length];
+	}
+	gate(g: number): string {
+		return (this.item(g) as GateItem).gate;
+	}
+}
+
+const NO_QUBITS: number[] = [];
 
 /**
  * Rewrite decomposed controlled phases, doubly controlled phases and Toffolis in `doc.body` to
@@ -108,26 +163,25 @@ export function recogniseDecompositions(doc: CircuitDocument, options: PeepholeO
 	}
 	const refs: QubitRef[] = [];
 	for (const r of doc.registers) for (let i = 0; i < r.size; i++) refs.push({ register: r.name, index: i });
-	const qid = (r: QubitRef): number => (offsets.get(r.register) ?? 0) + (r.index as number);
-	const known = (r: QubitRef) => {
-		const size = sizes.get(r.register);
-		return size !== undefined && typeof r.index === 'number' && r.index >= 0 && r.index < size;
-	};
-	const gs: G[] = doc.body.map((item) => classify(item, qid, known));
+	const G = classifyAll(doc.body, offsets, sizes);
+	const n = doc.body.length;
 	let work = 0;
-	const maxWork = options.maxWork ?? 40 * gs.length + 100_000;
+	const maxWork = options.maxWork ?? 40 * n + 100_000;
 
-	// 2. Toffolis first: a CNOT region would otherwise take their middle apart.
-	const removed = new Uint8Array(gs.length);
-	for (let i = 0; i < gs.length && !report.stoppedAtLimit; i++) {
-		if (gs[i].kind !== 'h' || removed[i]) continue;
-		const m = matchToffoli(gs, removed, i);
+	// 2. Toffolis first: a CNOT region would otherwise take their middle apart. `at[k]` is the gate at position k.
+	const at = new Int32Array(n);
+	for (let k = 0; k < n; k++) at[k] = k;
+	const removed = new Uint8Array(n);
+	let toffoliMatched = false;
+	for (let i = 0; i < n && !report.stoppedAtLimit; i++) {
+		if (G.kind[at[i]] !== H || removed[i]) continue;
+		const m = matchToffoli(G, at, removed, i);
 		work += m ? m.visited : 8;
 		if (work > maxWork) report.stoppedAtLimit = true;
 		if (!m) continue;
 		const [a, b, c] = m.roles;
-		const first = gs[m.matched[0]].item;
-		const lines = m.matched.map((k) => gs[k].item.source?.line).filter((x): x is number => x !== undefined);
+		const first = G.item(at[m.matched[0]]);
+		const lines = m.matched.map((k) => G.item(at[k]).source?.line).filter((x): x is number => x !== undefined);
 		const ccx: GateItem = {
 			id: `${first.id}t`,
 			type: 'gate',
@@ -137,93 +191,124 @@ export function recogniseDecompositions(doc: CircuitDocument, options: PeepholeO
 			label: lines.length ? `Toffoli written out (lines ${Math.min(...lines)}–${Math.max(...lines)})` : 'Toffoli written out'
 		};
 		for (const k of m.matched.slice(1)) removed[k] = 1;
-		gs[m.matched[0]] = { item: ccx, kind: 'other', qs: [a, b, c] };
+		at[m.matched[0]] = G.add(ccx, OTHER, [a, b, c], undefined, false);
 		report.toffolis++;
+		toffoliMatched = true;
 	}
 
 	// 4. Toffoli pairs around phases on their target: ccx(a,b,n) · D · ccx(a,b,n).
-	const pairs = toffoliPhases(gs, removed, refs, maxRegion, report);
+	const pairs = toffoliPhases(G, at, removed, refs, maxRegion, report);
 	work += pairs.visited;
 	if (work > maxWork) report.stoppedAtLimit = true;
-	const gs1: G[] = [];
-	const orig: number[] = [];
-	for (let i = 0; i < gs.length; i++) {
-		if (removed[i]) continue;
-		for (const g of pairs.rewrite.get(i) ?? [gs[i]]) {
-			gs1.push(g);
-			orig.push(i);
+	// The list after rules 2 and 4: gate and source position per entry.
+	let list1 = at;
+	let orig1: Int32Array | null = null; // null: position k came from item k
+	if (toffoliMatched || pairs.rewrite.size) {
+		let len = 0;
+		for (let i = 0; i < n; i++) if (!removed[i]) len += pairs.rewrite.get(i)?.length ?? 1;
+		list1 = new Int32Array(len);
+		orig1 = new Int32Array(len);
+		let o = 0;
+		for (let i = 0; i < n; i++) {
+			if (removed[i]) continue;
+			const rep = pairs.rewrite.get(i);
+			if (rep === undefined) {
+				list1[o] = at[i];
+				orig1[o++] = i;
+			} else
+				for (const g of rep) {
+					list1[o] = g;
+					orig1[o++] = i;
+				}
 		}
 	}
-	const removed1 = new Uint8Array(gs1.length);
+	const len1 = list1.length;
 
-	// 1. CNOT regions.
-	// The rewritten list as two parallel arrays (no object per gate).
-	const outG: G[] = [];
-	const outFrom: number[] = [];
-	for (let i = 0; i < gs1.length; ) {
-		if (gs1[i].kind === 'cx' && !report.stoppedAtLimit) {
-			const r = tryRegion(gs1, removed1, i, maxRegion, refs);
+	// 1. CNOT regions, rewritten into a second list (gate and source position per entry).
+	let out = new Int32Array(len1 + 16);
+	let outFrom = new Int32Array(len1 + 16);
+	let len = 0;
+	const put = (g: number, from: number) => {
+		if (len === out.length) {
+			const grown = new Int32Array(out.length * 2);
+			grown.set(out);
+			out = grown;
+			const grownFrom = new Int32Array(out.length);
+			grownFrom.set(outFrom);
+			outFrom = grownFrom;
+		}
+		out[len] = g;
+		outFrom[len++] = from;
+	};
+	const region = new RegionWalk(G, list1, maxRegion);
+	for (let i = 0; i < len1; ) {
+		if (G.kind[list1[i]] === CX && !report.stoppedAtLimit) {
+			const r = region.check(i);
 			work += r.visited;
 			if (work > maxWork) report.stoppedAtLimit = true;
 			if (r.ok) {
 				report.regions++;
-				report.rzAsPhase += r.rz;
+				const rewrite = region.rewrite(i, r.end, refs);
+				report.rzAsPhase += rewrite.rz;
 				for (let k = i; k <= r.end; k++) {
-					const rep = r.rewrite.get(k);
-					if (rep === undefined) {
-						outG.push(gs1[k]);
-						outFrom.push(orig[k]);
-					}
-					else
-						for (const g of rep) {
-							outG.push(g);
-							outFrom.push(orig[k]);
-						}
+					const from = orig1 ? orig1[k] : k;
+					const rep = rewrite.made.get(k);
+					if (rep === undefined) put(list1[k], from);
+					else for (const g of rep) put(g, from);
 				}
 				i = r.end + 1;
 				continue;
 			}
 		}
-		outG.push(gs1[i]);
-		outFrom.push(orig[i]);
+		put(list1[i], orig1 ? orig1[i] : i);
 		i++;
 	}
 
 	// 3. Cancel exact pairs: a gate and the next gate touching its qubits (skipping only gates made
 	// from the same source item as either), so a leftover stays next to the line that caused it.
 	// Repeated (a few passes) so that a pair whose neighbours cancel later in the list still meets.
-	const gone = new Uint8Array(outG.length);
+	// A pair needs a made gate (rule 1 or 4): a gate that is not made is tried only when a made
+	// gate lies within the positions its scan of at most 256 remaining gates can reach.
+	const gone = new Uint8Array(len);
+	const nextMade = new Int32Array(len + 1);
+	nextMade[len] = 0x7fffffff;
+	for (let k = len - 1; k >= 0; k--) nextMade[k] = G.made[out[k]] ? k : nextMade[k + 1];
+	let goneCount = 0;
 	for (let pass = 0, changed = true; changed && pass < 6; pass++) {
 		changed = false;
-		for (let i = 0; i < outG.length; i++) {
-			const gi = outG[i];
-			if (gone[i] || gi.kind !== 'diag' || !gi.angle!.exact) continue;
-			const set = gi.qs;
-			for (let j = i + 1, seen = 0; j < outG.length && seen < 256; j++) {
+		for (let i = 0; i < len; i++) {
+			const gi = out[i];
+			if (gone[i] || G.kind[gi] !== DIAG || !G.angle[gi]!.exact) continue;
+			if (!G.made[gi] && nextMade[i + 1] > i + 256 + goneCount) continue;
+			const set = G.qs[gi];
+			for (let j = i + 1, seen = 0; j < len && seen < 256; j++) {
 				if (gone[j]) continue;
-				const gj = outG[j];
+				const gj = out[j];
 				seen++;
-				if (gj.kind === 'barrier') break;
-				if (!overlaps(gj.qs, set)) continue;
-				if (gj.kind === 'diag' && (gi.made || gj.made) && gj.angle!.exact && sameSet(gj.qs, set) && isZero(addAngles(gi.angle!, gj.angle!))) {
+				const kj = G.kind[gj];
+				if (kj === BARRIER) break;
+				if (!overlaps(G.qs[gj], set)) continue;
+				if (kj === DIAG && (G.made[gi] || G.made[gj]) && G.angle[gj]!.exact && sameSet(G.qs[gj], set) && isZero(addAngles(G.angle[gi]!, G.angle[gj]!))) {
 					gone[i] = gone[j] = 1;
+					goneCount += 2;
 					changed = true;
 					report.cancelledPairs++;
-					for (const x of [gi, gj]) if ((x.item as GateItem).gate === 'rz') report.rzAsPhase++;
+					if (G.gate(gi) === 'rz') report.rzAsPhase++;
+					if (G.gate(gj) === 'rz') report.rzAsPhase++;
 					break;
 				}
 				// Siblings (diagonal, made from one source gate) commute with gi and may be stepped over.
-				if (gj.kind === 'diag' && gj.made && (outFrom[j] === outFrom[i] || (j + 1 < outG.length && outFrom[j + 1] === outFrom[j]) || (j > 0 && outFrom[j - 1] === outFrom[j]))) continue;
+				if (kj === DIAG && G.made[gj] && (outFrom[j] === outFrom[i] || (j + 1 < len && outFrom[j + 1] === outFrom[j]) || (j > 0 && outFrom[j - 1] === outFrom[j]))) continue;
 				break;
 			}
 		}
 	}
-	const body: BodyItem[] = [];
-	const from: number[] = [];
-	for (let k = 0; k < outG.length; k++) {
+	const body: BodyItem[] = new Array(len - goneCount);
+	const from: number[] = new Array(len - goneCount);
+	for (let k = 0, o = 0; k < len; k++) {
 		if (gone[k]) continue;
-		body.push(outG[k].item);
-		from.push(outFrom[k]);
+		body[o] = G.item(out[k]);
+		from[o++] = outFrom[k];
 	}
 	return { body, from, report };
 }
@@ -234,46 +319,67 @@ function overlaps(a: number[], b: number[]): boolean {
 	return false;
 }
 
-function sameSet(a: number[], b: number[]): boolean {
+export function sameSet(a: number[], b: number[]): boolean {
 	if (a.length !== b.length) return false;
 	for (const x of a) if (!b.includes(x)) return false;
 	return true;
 }
 
-function classify(item: BodyItem, qid: (r: QubitRef) => number, known: (r: QubitRef) => boolean): G {
-	if (item.type !== 'gate' || item.qubits.some((q) => typeof q.index !== 'number' || !known(q))) return { item, kind: 'barrier', qs: [] };
-	const qs = item.qubits.map(qid);
-	switch (item.gate) {
-		case 'p':
-		case 'cp':
-		case 'mcp':
-		case 'rz':
-			return { item, kind: 'diag', qs, angle: readAngle(item.angle ?? '0 turn') };
-		case 'cx':
-			return { item, kind: 'cx', qs };
-		case 'h':
-			return { item, kind: 'h', qs };
-		default:
-			return { item, kind: 'other', qs };
+/** The body's gates into a {@link Gates} table (a qubit list shared by items is read once). */
+function classifyAll(body: BodyItem[], offsets: Map<string, number>, sizes: Map<string, number>): Gates {
+	const G = new Gates(body);
+	const lists = new Map<QubitRef[], number[] | null>();
+	for (let g = 0; g < body.length; g++) {
+		const item = body[g];
+		if (item.type !== 'gate') {
+			G.set(g, BARRIER, NO_QUBITS, undefined);
+			continue;
+		}
+		let qs = lists.get(item.qubits);
+		if (qs === undefined) {
+			qs = [];
+			for (const r of item.qubits) {
+				const size = sizes.get(r.register);
+				if (size === undefined || typeof r.index !== 'number' || !(r.index >= 0 && r.index < size)) {
+					qs = null;
+					break;
+				}
+				qs.push((offsets.get(r.register) ?? 0) + r.index);
+			}
+			if (lists.size < 100_000) lists.set(item.qubits, qs);
+		}
+		if (qs === null) {
+			G.set(g, BARRIER, NO_QUBITS, undefined);
+			continue;
+		}
+		switch (item.gate) {
+			case 'p':
+			case 'cp':
+			case 'mcp':
+			case 'rz':
+				G.set(g, DIAG, qs, readAngle(item.angle ?? '0 turn'));
+				break;
+			case 'cx':
+				G.set(g, CX, qs, undefined);
+				break;
+			case 'h':
+				G.set(g, H, qs, undefined);
+				break;
+			default:
+				G.set(g, OTHER, qs, undefined);
+		}
 	}
+	return G;
 }
 
 // ----------------------------------------------------------------------------------------------
 // Rule 1: CNOT regions
 
-interface RegionResult {
-	ok: boolean;
-	end: number;
-	visited: number;
-	rz: number;
-	rewrite: Map<number, G[]>;
-}
-
 const MAX_PARITY = 8;
 const MAX_TERMS = 256;
 
 /** Symmetric difference of two sorted arrays. */
-function xorSorted(a: number[], b: number[]): number[] {
+export function xorSorted(a: number[], b: number[]): number[] {
 	const out: number[] = [];
 	let i = 0;
 	let j = 0;
@@ -288,49 +394,105 @@ function xorSorted(a: number[], b: number[]): number[] {
 	return out;
 }
 
-function tryRegion(gs: G[], removed: Uint8Array, start: number, maxRegion: number, refs: QubitRef[]): RegionResult {
-	// Parities of the qubits changed so far (absent = the qubit holds its own start value).
-	const parity = new Map<number, number[]>();
-	const rewrite = new Map<number, G[]>();
-	let visited = 0;
-	let rz = 0;
-	const fail = (): RegionResult => ({ ok: false, end: start, visited, rz: 0, rewrite });
-	const inDirty = (q: number) => {
-		if (parity.has(q)) return true;
-		for (const p of parity.values()) if (p.includes(q)) return true;
+/**
+ * A CNOT region from a CNOT at position `start` of `list`: {@link check} walks the CNOT parities
+ * only (no gate is made) to find whether and where the region closes; {@link rewrite} then makes
+ * the monomial phases of its diagonal gates. Together they give what the reference's `tryRegion` gives.
+ */
+class RegionWalk {
+	/** Parities of the qubits changed so far (absent = the qubit holds its own start value). */
+	private readonly parity = new Map<number, number[]>();
+	constructor(
+		private readonly G: Gates,
+		private readonly list: Int32Array,
+		private readonly maxRegion: number
+	) {}
+
+	/** Whether qubit q is changed or feeds a changed qubit. */
+	private inDirty(q: number): boolean {
+		if (this.parity.has(q)) return true;
+		for (const p of this.parity.values()) if (p.includes(q)) return true;
 		return false;
-	};
-	for (let k = start; k < gs.length && k < start + maxRegion; k++) {
-		if (removed[k]) continue;
-		visited++;
-		const g = gs[k];
-		if (g.kind === 'cx') {
-			const [c, t] = g.qs;
-			const pc = parity.get(c) ?? [c];
-			const pt = parity.get(t) ?? [t];
-			const nt = xorSorted(pt, pc);
-			if (nt.length > MAX_PARITY) return fail();
-			if (nt.length === 1 && nt[0] === t) parity.delete(t);
-			else parity.set(t, nt);
-			rewrite.set(k, []);
-			if (parity.size === 0) return { ok: true, end: k, visited, rz, rewrite };
-			continue;
+	}
+
+	/** Apply the CNOT at list position k to the parities; false when a parity grows too long. */
+	private cnot(k: number): boolean {
+		const qs = this.G.qs[this.list[k]];
+		const c = qs[0];
+		const t = qs[1];
+		const parity = this.parity;
+		const nt = xorSorted(parity.get(t) ?? [t], parity.get(c) ?? [c]);
+		if (nt.length > MAX_PARITY) return false;
+		if (nt.length === 1 && nt[0] === t) parity.delete(t);
+		else parity.set(t, nt);
+		return true;
+	}
+
+	private touchesChanged(qs: number[]): boolean {
+		for (let i = 0; i < qs.length; i++) if (this.parity.has(qs[i])) return true;
+		return false;
+	}
+
+	check(start: number): { ok: boolean; end: number; visited: number } {
+		const { G, list, parity } = this;
+		parity.clear();
+		let visited = 0;
+		const stop = Math.min(list.length, start + this.maxRegion);
+		for (let k = start; k < stop; k++) {
+			visited++;
+			const g = list[k];
+			const kind = G.kind[g];
+			if (kind === CX) {
+				if (!this.cnot(k)) return { ok: false, end: start, visited };
+				if (parity.size === 0) return { ok: true, end: k, visited };
+				continue;
+			}
+			if (kind === DIAG) {
+				const qs = G.qs[g];
+				if (!this.touchesChanged(qs)) continue;
+				// Too many monomials fails the region; at most ∏(2^|parity| − 1) of them.
+				let bound = 1;
+				for (const q of qs) bound *= (1 << (parity.get(q)?.length ?? 1)) - 1;
+				if (bound > MAX_TERMS && expandProduct(qs.map((q) => parity.get(q) ?? [q])) === null) return { ok: false, end: start, visited };
+				continue;
+			}
+			// Any other gate may stay inside the region only if it touches no changed qubit and no
+			// qubit a changed one depends on: then it acts on the same values with or without the CNOTs.
+			if (kind === BARRIER) return { ok: false, end: start, visited };
+			const qs = G.qs[g];
+			for (let i = 0; i < qs.length; i++) if (this.inDirty(qs[i])) return { ok: false, end: start, visited };
 		}
-		if (g.kind === 'diag') {
-			if (!g.qs.some((q) => parity.has(q))) continue;
-			const item = g.item as GateItem;
-			const terms = expandProduct(g.qs.map((q) => parity.get(q) ?? [q]));
-			if (terms === null) return fail();
-			const target = g.qs[g.qs.length - 1];
-			const made: G[] = [];
-			let n = 0;
+		return { ok: false, end: start, visited };
+	}
+
+	/** The gates made for a region known to close at `end`: per list position, its replacement (CNOTs: none). */
+	rewrite(start: number, end: number, refs: QubitRef[]): { made: Map<number, number[]>; rz: number } {
+		const { G, list, parity } = this;
+		parity.clear();
+		const made = new Map<number, number[]>();
+		let rz = 0;
+		for (let k = start; k <= end; k++) {
+			const g = list[k];
+			const kind = G.kind[g];
+			if (kind === CX) {
+				this.cnot(k);
+				made.set(k, []);
+				continue;
+			}
+			if (kind !== DIAG || !this.touchesChanged(G.qs[g])) continue;
+			const item = G.item(g) as GateItem;
+			const gqs = G.qs[g];
+			const terms = expandProduct(gqs.map((q) => parity.get(q) ?? [q]))!;
+			const target = gqs[gqs.length - 1];
+			const rep: number[] = [];
+			let m = 0;
 			for (const [mono, coef] of terms) {
-				const a = scaleAngle(g.angle!, coef);
+				const a = scaleAngle(G.angle[g]!, coef);
 				if (isZero(a)) continue;
 				const qs = [...mono].sort((x, y) => (x === target ? 1 : y === target ? -1 : x - y));
 				const gate = qs.length === 1 ? 'p' : qs.length === 2 ? 'cp' : 'mcp';
 				const it: GateItem = {
-					id: `${item.id}r${++n}`,
+					id: `${item.id}r${++m}`,
 					type: 'gate',
 					gate,
 					qubits: qs.map((q) => ({ ...refs[q] })),
@@ -338,24 +500,20 @@ function tryRegion(gs: G[], removed: Uint8Array, start: number, maxRegion: numbe
 					...(item.source ? { source: item.source } : {}),
 					label: `${gate} from a ${item.gate} between CNOTs`
 				};
-				made.push({ item: it, kind: 'diag', qs, angle: a, made: true });
+				rep.push(G.add(it, DIAG, qs, a, true));
 			}
 			if (item.gate === 'rz') rz++;
-			rewrite.set(k, made);
-			continue;
+			made.set(k, rep);
 		}
-		// Any other gate may stay inside the region only if it touches no changed qubit and no
-		// qubit a changed one depends on: then it acts on the same values with or without the CNOTs.
-		if (g.kind === 'barrier' || g.qs.some(inDirty)) return fail();
+		return { made, rz };
 	}
-	return fail();
 }
 
 /**
  * θ·∏_q f_q with each f_q the XOR of the variables in `parities[q]`, as a sum over monomials:
  * monomial (sorted variable list) → integer coefficient. Null when it has too many terms.
  */
-function expandProduct(parities: number[][]): Map<number[], bigint> | null {
+export function expandProduct(parities: number[][]): Map<number[], bigint> | null {
 	// Each parity expands to Σ_{∅≠T⊆vars} (−2)^{|T|−1}·∏T (for XOR of 0/1 values; exact).
 	let acc = new Map<string, { mono: number[]; c: bigint }>([['', { mono: [], c: 1n }]]);
 	for (const p of parities) {
@@ -396,26 +554,28 @@ function expandProduct(parities: number[][]): Map<number[], bigint> | null {
  * and last vanish and what is left is the doubly controlled phase on (a, b, S∖n); with n at 1 the
  * circuit really does something else, and the kept terms say so to the engines and the prover.
  */
-function toffoliPhases(gs: G[], removed: Uint8Array, refs: QubitRef[], maxRegion: number, report: PeepholeReport): { rewrite: Map<number, G[]>; visited: number } {
-	const rewrite = new Map<number, G[]>();
+function toffoliPhases(G: Gates, at: Int32Array, removed: Uint8Array, refs: QubitRef[], maxRegion: number, report: PeepholeReport): { rewrite: Map<number, number[]>; visited: number } {
+	const rewrite = new Map<number, number[]>();
 	let visited = 0;
-	const isCcx = (g: G) => g.kind === 'other' && (g.item as GateItem).gate === 'ccx';
-	for (let i = 0; i < gs.length; i++) {
-		if (removed[i] || rewrite.has(i) || !isCcx(gs[i])) continue;
-		const [a, b, n] = gs[i].qs;
+	const isCcx = (g: number) => G.kind[g] === OTHER && G.gate(g) === 'ccx';
+	const n = at.length;
+	for (let i = 0; i < n; i++) {
+		if (removed[i] || rewrite.has(i) || !isCcx(at[i])) continue;
+		const [a, b, t] = G.qs[at[i]];
 		const inside: number[] = [];
 		let end = -1;
-		for (let k = i + 1; k < gs.length && k <= i + maxRegion; k++) {
+		for (let k = i + 1; k < n && k <= i + maxRegion; k++) {
 			if (removed[k]) continue;
 			visited++;
-			const g = gs[k];
-			if (g.kind === 'barrier') break;
-			if (!g.qs.includes(a) && !g.qs.includes(b) && !g.qs.includes(n)) continue;
-			if (isCcx(g) && g.qs[2] === n && sameSet(g.qs.slice(0, 2), [a, b])) {
+			const g = at[k];
+			if (G.kind[g] === BARRIER) break;
+			const qs = G.qs[g];
+			if (!qs.includes(a) && !qs.includes(b) && !qs.includes(t)) continue;
+			if (isCcx(g) && qs[2] === t && sameSet(qs.slice(0, 2), [a, b])) {
 				end = k;
 				break;
 			}
-			if (g.kind === 'diag' && g.qs.includes(n) && !g.qs.includes(a) && !g.qs.includes(b) && !rewrite.has(k)) {
+			if (G.kind[g] === DIAG && qs.includes(t) && !qs.includes(a) && !qs.includes(b) && !rewrite.has(k)) {
 				inside.push(k);
 				continue;
 			}
@@ -423,36 +583,33 @@ function toffoliPhases(gs: G[], removed: Uint8Array, refs: QubitRef[], maxRegion
 		}
 		if (end < 0 || inside.length === 0) continue;
 		for (const k of inside) {
-			const g = gs[k];
-			const item = g.item as GateItem;
-			const rest = g.qs.filter((q) => q !== n);
-			const target = rest.length ? rest[rest.length - 1] : n;
+			const g = at[k];
+			const item = G.item(g) as GateItem;
+			const gqs = G.qs[g];
+			const angle0 = G.angle[g]!;
+			const rest = gqs.filter((q) => q !== t);
+			const target = rest.length ? rest[rest.length - 1] : t;
 			const terms: [number[], Angle][] = [
-				[g.qs, g.angle!],
-				[[...rest, a, b], g.angle!],
-				[[...g.qs, a, b], scaleAngle(g.angle!, -2n)]
+				[gqs, angle0],
+				[[...rest, a, b], angle0],
+				[[...gqs, a, b], scaleAngle(angle0, -2n)]
 			];
-			const made: G[] = [];
+			const made: number[] = [];
 			let m = 0;
 			for (const [set, angle] of terms) {
 				if (isZero(angle)) continue;
 				const qs = [...set].sort((x, y) => (x === target ? 1 : y === target ? -1 : x - y));
 				const gate = qs.length === 1 ? 'p' : qs.length === 2 ? 'cp' : 'mcp';
-				made.push({
-					item: {
-						id: `${item.id}a${++m}`,
-						type: 'gate',
-						gate,
-						qubits: qs.map((q) => ({ ...refs[q] })),
-						angle: angleString(angle),
-						...(item.source ? { source: item.source } : {}),
-						label: `${gate} from a ${item.gate} between Toffolis onto ${refs[n].register}[${refs[n].index}]`
-					},
-					kind: 'diag',
-					qs,
-					angle,
-					made: true
-				});
+				const it: GateItem = {
+					id: `${item.id}a${++m}`,
+					type: 'gate',
+					gate,
+					qubits: qs.map((q) => ({ ...refs[q] })),
+					angle: angleString(angle),
+					...(item.source ? { source: item.source } : {}),
+					label: `${gate} from a ${item.gate} between Toffolis onto ${refs[t].register}[${refs[t].index}]`
+				};
+				made.push(G.add(it, DIAG, qs, angle, true));
 			}
 			if (item.gate === 'rz') report.rzAsPhase++;
 			rewrite.set(k, made);
@@ -468,9 +625,9 @@ function toffoliPhases(gs: G[], removed: Uint8Array, refs: QubitRef[], maxRegion
 // Rule 2: the Toffoli network of Nielsen & Chuang Fig. 4.9 / qelib1.inc `ccx`
 
 type Role = 0 | 1 | 2; // a, b, c (controls a, b; target c)
-type Step = { kind: 'h' | 'cx' | 't' | 'tdg'; q: Role[] };
+export type ToffoliStep = { kind: 'h' | 'cx' | 't' | 'tdg'; q: Role[] };
 /** Groups of steps that may come in any order among themselves (they commute). */
-const TOFFOLI: Step[][] = [
+export const TOFFOLI: ToffoliStep[][] = [
 	[{ kind: 'h', q: [2] }],
 	[{ kind: 'cx', q: [1, 2] }],
 	[{ kind: 'tdg', q: [2] }],
@@ -492,19 +649,23 @@ const TOFFOLI: Step[][] = [
 	[{ kind: 'cx', q: [0, 1] }]
 ];
 
-function stepMatches(g: G, s: Step, roles: (number | undefined)[]): (number | undefined)[] | null {
-	const item = g.item as GateItem;
+function stepMatches(G: Gates, g: number, s: ToffoliStep, roles: (number | undefined)[]): (number | undefined)[] | null {
+	const kind = G.kind[g];
+	const qs = G.qs[g];
 	if (s.kind === 'h' || s.kind === 'cx') {
-		if (g.kind !== s.kind) return null;
+		if (kind !== (s.kind === 'h' ? H : CX)) return null;
 	} else {
-		if (g.kind !== 'diag' || g.qs.length !== 1 || (item.gate !== 'p' && item.gate !== 'rz')) return null;
+		if (kind !== DIAG || qs.length !== 1) return null;
+		const gate = G.gate(g);
+		if (gate !== 'p' && gate !== 'rz') return null;
 		const want = s.kind === 't' ? EIGHTH : MINUS_EIGHTH;
-		if (!g.angle!.exact || g.angle!.num !== want.num || g.angle!.exp !== want.exp) return null;
+		const angle = G.angle[g]!;
+		if (!angle.exact || angle.num !== want.num || angle.exp !== want.exp) return null;
 	}
 	const next = [...roles];
 	for (let k = 0; k < s.q.length; k++) {
 		const role = s.q[k];
-		const q = g.qs[k];
+		const q = qs[k];
 		if (next[role] === undefined) {
 			if (next.includes(q)) return null;
 			next[role] = q;
@@ -513,9 +674,10 @@ function stepMatches(g: G, s: Step, roles: (number | undefined)[]): (number | un
 	return next;
 }
 
-function matchToffoli(gs: G[], removed: Uint8Array, start: number): { roles: [number, number, number]; matched: number[]; visited: number } | null {
-	let roles: (number | undefined)[] = [undefined, undefined, gs[start].qs[0]];
+function matchToffoli(G: Gates, at: Int32Array, removed: Uint8Array, start: number): { roles: [number, number, number]; matched: number[]; visited: number } | null {
+	let roles: (number | undefined)[] = [undefined, undefined, G.qs[at[start]][0]];
 	const matched: number[] = [start];
+	const n = at.length;
 	let k = start + 1;
 	let visited = 1;
 	for (let gi = 1; gi < TOFFOLI.length; gi++) {
@@ -523,12 +685,18 @@ function matchToffoli(gs: G[], removed: Uint8Array, start: number): { roles: [nu
 		while (pending.length) {
 			// The next gate touching a bound qubit must be one of the group's steps.
 			let found = -1;
-			for (; k < gs.length && visited < 4096; k++) {
+			const r0 = roles[0] ?? -1;
+			const r1 = roles[1] ?? -1;
+			const r2 = roles[2] ?? -1;
+			for (; k < n && visited < 4096; k++) {
 				if (removed[k]) continue;
 				visited++;
-				const g = gs[k];
-				if (g.kind === 'barrier') return null;
-				if (g.qs.some((q) => roles.includes(q))) {
+				const g = at[k];
+				if (G.kind[g] === BARRIER) return null;
+				const qs = G.qs[g];
+				let touches = false;
+				for (let j = 0; j < qs.length; j++) if (qs[j] === r0 || qs[j] === r1 || qs[j] === r2) touches = true;
+				if (touches) {
 					found = k;
 					break;
 				}
@@ -536,7 +704,7 @@ function matchToffoli(gs: G[], removed: Uint8Array, start: number): { roles: [nu
 			if (found < 0) return null;
 			let ok = false;
 			for (let s = 0; s < pending.length; s++) {
-				const r = stepMatches(gs[found], pending[s], roles);
+				const r = stepMatches(G, at[found], pending[s], roles);
 				if (r) {
 					roles = r;
 					pending.splice(s, 1);
@@ -554,7 +722,7 @@ function matchToffoli(gs: G[], removed: Uint8Array, start: number): { roles: [nu
 	const set = new Set(matched);
 	for (let j = start; j <= matched[matched.length - 1]; j++) {
 		if (removed[j] || set.has(j)) continue;
-		if (gs[j].qs.some((q) => bound.includes(q))) return null;
+		if (G.qs[at[j]].some((q) => bound.includes(q))) return null;
 	}
 	return { roles: bound, matched, visited };
 }
