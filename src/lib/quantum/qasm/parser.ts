@@ -17,7 +17,21 @@ import { GateEmitter } from './emit.js';
 import type { GateOrigin, PrintedAngleStats, QasmLimits, QasmWarning } from './types.js';
 
 /** Standard gates the fast path reads (any with qubits, except `id`, which makes no gate). */
-const FAST_BUILTINS = new Map<string, { name: string; builtin: Builtin; plain: (typeof PLAIN_GATES)[string] | undefined }>();
+interface FastGate {
+	name: string;
+	builtin: Builtin;
+	plain: (typeof PLAIN_GATES)[string] | undefined;
+}
+/** A gate parameter's source text, its value, and how it counts as a printed decimal (0 not one, 1 exact, 2 inexact). */
+interface FastParam {
+	key: string;
+	value: Num;
+	decimal: number;
+	difference: number;
+}
+/** Fast-path gates by the char code of their name's first letter. */
+const FAST_BY_FIRST: (FastGate[] | undefined)[] = new Array(128);
+const NO_FAST: FastGate[] = [];
 /**
  * Standard gates that are one document gate as written (`emit.ts` makes the same item from their
  * ops): the item's gate, and its angle (the call's parameter, or a fixed one). Others are built.
@@ -47,7 +61,8 @@ const PLAIN_GATES: Record<string, { gate: GateItem['gate']; angle?: Num | 'param
 export const FAST_PATH = { enabled: true, /** statements it has read (for the tests) */ read: 0 };
 /** Origins of gates read by the fast path share this (no gate definitions were expanded). */
 const NO_DEFINITIONS: GateOrigin['definitions'] = Object.freeze([]) as unknown as GateOrigin['definitions'];
-for (const [name, builtin] of Object.entries(BUILTINS)) if (builtin.qubits > 0 && name !== 'id') FAST_BUILTINS.set(name, { name, builtin, plain: PLAIN_GATES[name] });
+for (const [name, builtin] of Object.entries(BUILTINS))
+	if (builtin.qubits > 0 && name !== 'id') (FAST_BY_FIRST[name.charCodeAt(0)] ??= []).push({ name, builtin, plain: PLAIN_GATES[name] });
 const isAsciiIdentStart = (c: number) => (c >= 97 && c <= 122) || (c >= 65 && c <= 90) || c === 95;
 const isAsciiIdentPart = (c: number) => isAsciiIdentStart(c) || (c >= 48 && c <= 57);
 /** Characters a fast-path parameter may hold: names, numbers, + - * / . ( ) and blanks. */
@@ -198,7 +213,7 @@ export class Reader {
 		if (this.warnings.length !== warned || this.paramCache.size >= 10_000) return v;
 		for (const t of ex) if (t.kind === 'string' || (t.kind === 'ident' && this.consts.has(t.text))) return v;
 		const key = this.tokens.text.slice(ex[0].start, ex[ex.length - 1].end);
-		if (!this.paramCache.has(key)) this.paramCache.set(key, { value: v, decimal: this.lastDecimal, difference: this.lastDecimalDiff });
+		if (!this.paramCache.has(key)) this.paramCache.set(key, { key, value: v, decimal: this.lastDecimal, difference: this.lastDecimalDiff });
 		return v;
 	}
 
@@ -232,7 +247,14 @@ export class Reader {
 		if (!isAsciiIdentStart(c)) return false;
 		while (++i < n && isAsciiIdentPart((c = text.charCodeAt(i))));
 		if (c >= 128) return false;
-		const fast = FAST_BUILTINS.get(text.slice(nameStart, i));
+		// Names are matched in place (no string is cut for them).
+		let fast: FastGate | undefined;
+		const nameLength = i - nameStart;
+		for (const f of FAST_BY_FIRST[text.charCodeAt(nameStart)] ?? NO_FAST)
+			if (f.name.length === nameLength && text.startsWith(f.name, nameStart)) {
+				fast = f;
+				break;
+			}
 		if (fast === undefined || !builtinAvailable(fast.builtin, this.version, this.included)) return false;
 		const name = fast.name;
 		const b = fast.builtin;
@@ -254,7 +276,7 @@ export class Reader {
 					while (a < z && (text.charCodeAt(a) === 32 || text.charCodeAt(a) === 9)) a++;
 					while (z > a && (text.charCodeAt(z - 1) === 32 || text.charCodeAt(z - 1) === 9)) z--;
 					if (a === z) return false;
-					const p = this.paramCache.get(text.slice(a, z));
+					const p = this.paramAt(text, a, z);
 					if (p === undefined) return false;
 					params.push(p);
 					from = i + 1;
@@ -272,9 +294,8 @@ export class Reader {
 			if (!isAsciiIdentStart(c)) return false;
 			while (++i < n && isAsciiIdentPart((c = text.charCodeAt(i))));
 			if (c >= 128) return false;
-			const regName = text.slice(regStart, i);
-			const r = this.regByName.get(regName);
-			if (r === undefined || (this.aliases.size && this.aliases.has(regName))) return false;
+			const r = this.registerAt(text, regStart, i);
+			if (r === undefined) return false;
 			while (c === 32 || c === 9) c = text.charCodeAt(++i);
 			if (c !== 91) return false;
 			c = text.charCodeAt(++i);
@@ -328,9 +349,38 @@ export class Reader {
 		}
 		return true;
 	}
-	private readonly fastParams: { value: Num; decimal: number; difference: number }[] = [];
+	/** The register named by text[start, end) (not an alias), matched in place when there are few registers. */
+	private registerAt(text: string, start: number, end: number): Reader['registers'][number] | undefined {
+		if (this.registers.length <= 16 && this.aliases.size === 0) {
+			for (const r of this.registers) if (r.name.length === end - start && text.startsWith(r.name, start)) return r;
+			return undefined;
+		}
+		const name = text.slice(start, end);
+		return this.aliases.has(name) ? undefined : this.regByName.get(name);
+	}
+	/** The remembered parameter whose text is text[start, end): the last few are matched in place. */
+	private paramAt(text: string, start: number, end: number): FastParam | undefined {
+		const recent = this.recentParams;
+		for (let k = 0; k < recent.length; k++) {
+			const e = recent[k];
+			if (e.key.length === end - start && text.startsWith(e.key, start)) return e;
+		}
+		const key = text.slice(start, end);
+		const e = this.paramCache.get(key);
+		if (e !== undefined) recent[this.recentNext++ & 7] = e;
+		return e;
+	}
+	private readonly recentParams: FastParam[] = [];
+	/** Constants changed: parameter texts may mean something else now. */
+	private forgetParams(): void {
+		this.paramCache.clear();
+		this.recentParams.length = 0;
+		this.recentNext = 0;
+	}
+	private recentNext = 0;
+	private readonly fastParams: FastParam[] = [];
 	/** Gate parameter source text → value and how it counts as a printed decimal (0 not one, 1 exact, 2 inexact). */
-	private readonly paramCache = new Map<string, { value: Num; decimal: number; difference: number }>();
+	private readonly paramCache = new Map<string, FastParam>();
 	private lastDecimal = 0;
 	private lastDecimalDiff = 0;
 
@@ -695,7 +745,7 @@ export class Reader {
 		}
 		if ((ty.text === 'int' || ty.text === 'uint') && numToInteger(v) === null) this.err(nameTok, `--param ${nameTok.text}=${text} must be an integer`);
 		this.consts.set(nameTok.text, v);
-		this.paramCache.clear();
+		this.forgetParams();
 		void kw;
 	}
 
@@ -948,7 +998,7 @@ export class Reader {
 		this.expectP(';', `the declaration of "${nameTok.text}"`);
 		if (!isConst) this.warn(first, `"${nameTok.text}" is read as a constant (it is never reassigned here)`);
 		this.consts.set(nameTok.text, v);
-		this.paramCache.clear();
+		this.forgetParams();
 	}
 
 	private modifiers(): Modifier[] {
