@@ -7,7 +7,7 @@
  * Qubit order: flat qubits (declaration order) are named through `flatToRef` (`reg[i]`, bit i).
  * Angles: ops carry radians (`Num`); items carry turns (`"k/2^m turn"` or `"~t"`).
  */
-import type { CallItem, GateItem, Matrix2, QubitRef, UserBlock, BodyItem } from '../circuit.js';
+import type { CallItem, GateItem, Matrix2, QubitRef, SourcePosition, UserBlock, BodyItem } from '../circuit.js';
 import type { Angle } from '../angle.js';
 import { numToAngle, type Num } from './expr.js';
 import { matDagger, matMul, matSqrt, MATRICES, rzMatrix, ryMatrix, zyz } from './matrix.js';
@@ -33,7 +33,12 @@ export interface EmitHost {
 /** Collects the document's body items and, per item, its origin. */
 export class GateEmitter {
 	readonly items: BodyItem[] = [];
-	readonly origins: GateOrigin[] = [];
+	/**
+	 * Per item its origin; for a gate the reader's fast path made, only the OpenQASM name (the
+	 * origin is that name, the item's `source` as the call, and no definitions; made when read).
+	 */
+	private readonly originOf: (GateOrigin | string)[] = [];
+	private originsMade: GateOrigin[] | null = null;
 	/** Gates made so far (a broadcast's gates sit in its block, so this is more than items.length). */
 	gatesMade = 0;
 	private nextItemId = 1;
@@ -64,7 +69,7 @@ export class GateEmitter {
 		if (angle !== undefined) item.angle = this.angleTextOf(angle);
 		if (matrix) item.matrix = matrix;
 		this.items.push(item);
-		this.origins.push(o.origin);
+		this.originOf.push(o.origin);
 		this.gatesMade++;
 	}
 
@@ -72,14 +77,28 @@ export class GateEmitter {
 	 * One gate item from the reader's fast path (a standard gate without controls to lower), the
 	 * same item {@link push} makes; the origin's call position is the item's `source`.
 	 */
-	pushPlain(gate: GateItem['gate'], qubits: QubitRef[], origin: GateOrigin, angle: Num | undefined): void {
-		if (this.gatesMade >= this.host.limits.maxGates) this.host.err(origin.call, `more than ${this.host.limits.maxGates} gates after expanding gate definitions (limit)`);
+	pushPlain(gate: GateItem['gate'], qubits: QubitRef[], qasm: string, source: SourcePosition, angle: Num | undefined): void {
+		if (this.gatesMade >= this.host.limits.maxGates) this.host.err(source, `more than ${this.host.limits.maxGates} gates after expanding gate definitions (limit)`);
 		const id = `g${this.nextItemId++}`;
-		this.items.push(
-			angle === undefined ? { id, type: 'gate', gate, qubits, source: origin.call } : { id, type: 'gate', gate, qubits, source: origin.call, angle: this.angleTextOf(angle) }
-		);
-		this.origins.push(origin);
+		this.items.push(angle === undefined ? { id, type: 'gate', gate, qubits, source } : { id, type: 'gate', gate, qubits, source, angle: this.angleTextOf(angle) });
+		this.originOf.push(qasm);
 		this.gatesMade++;
+	}
+
+	/** The origin of item i (see {@link originOf}). */
+	originAt(i: number): GateOrigin {
+		const o = this.originOf[i];
+		return typeof o === 'string' ? { qasm: o, call: this.items[i].source!, definitions: [] } : o;
+	}
+
+	/** Per item its origin, made on first use (a large file's reader makes none for plain gates until asked). */
+	get origins(): GateOrigin[] {
+		if (this.originsMade === null || this.originsMade.length !== this.items.length) {
+			const out: GateOrigin[] = new Array(this.items.length);
+			for (let i = 0; i < out.length; i++) out[i] = this.originAt(i);
+			this.originsMade = out;
+		}
+		return this.originsMade;
 	}
 
 	/**
@@ -136,14 +155,14 @@ export class GateEmitter {
 			this.broadcastBlocks.push(block);
 			this.broadcastByKey.set(key, block);
 		}
-		const origin = this.origins[start];
+		const origin = this.originAt(start);
 		const source = made[0].source;
 		this.items.length = start;
-		this.origins.length = start;
+		this.originOf.length = start;
 		const item: CallItem = { id: `g${this.nextItemId++}`, type: 'call', block: block.name, args: {}, label: `${call.name} ${register} (broadcast over ${made.length} gates)` };
 		if (source) item.source = source;
 		this.items.push(item);
-		this.origins.push(origin);
+		this.originOf.push(origin);
 	}
 
 	private phaseGate(ctrls: number[], t: number, a: Num, o: Op): void {

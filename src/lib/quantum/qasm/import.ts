@@ -15,7 +15,7 @@ import { lexQasmStream, QasmError, type TokenStream } from './lexer.js';
 import { recogniseDecompositions, type PeepholeReport } from './peephole.js';
 import { applyRegisterMap, RegisterMapError, type RegisterMapEntry } from './register-map.js';
 import { Reader } from './parser.js';
-import { DEFAULT_QASM_LIMITS, type QasmImport, type QasmImportOptions } from './types.js';
+import { DEFAULT_QASM_LIMITS, type GateOrigin, type QasmImport, type QasmImportOptions } from './types.js';
 
 export { angleText } from './emit.js';
 export { DEFAULT_QASM_LIMITS, type GateOrigin, type PrintedAngleStats, type QasmImport, type QasmImportOptions, type QasmLimits, type QasmWarning } from './types.js';
@@ -60,7 +60,8 @@ export function importQasm(text: string, options: QasmImportOptions = {}): QasmI
 	}
 	const title = options.title ?? file.replace(/^.*[\\/]/, '').replace(/\.(qasm3?|inc)$/i, '');
 	let document = r.documentOf(title);
-	let origins = r.origins;
+	// Origins are made when first read (the command line reads them; the upload path does not).
+	let origins = (): GateOrigin[] => r.origins;
 	const notes: string[] = [];
 	const d = r.decimals;
 	if (d.exact) notes.push(`${d.exact} printed angle${d.exact === 1 ? '' : 's'} read as exact k/2^m turn (largest difference ${d.largestDifferenceRadians.toExponential(2)} rad)`);
@@ -71,7 +72,8 @@ export function importQasm(text: string, options: QasmImportOptions = {}): QasmI
 		decompositions = p.report;
 		if (p.report.regions || p.report.toffolis || p.report.toffoliPhases || p.report.cancelledPairs) {
 			document = { ...document, body: p.body };
-			origins = p.from.map((i) => r.origins[i]);
+			const from = p.from;
+			origins = () => from.map((i) => r.emitter.originAt(i));
 			const parts: string[] = [];
 			if (p.report.regions) parts.push(`${p.report.regions} CNOT region${p.report.regions === 1 ? '' : 's'} read as diagonal phase gates`);
 			if (p.report.toffolis) parts.push(`${p.report.toffolis} Toffoli network${p.report.toffolis === 1 ? '' : 's'} read as ccx`);
@@ -103,5 +105,19 @@ export function importQasm(text: string, options: QasmImportOptions = {}): QasmI
 			r.warnings.push({ line: at.line, column: at.column, message: `let aliases kept as aliases, not registers: ${e.message}` });
 		}
 	}
-	return { document, version: r.version, warnings: r.warnings, origins, decimals: d, decompositions, notes };
+	let made: GateOrigin[] | undefined;
+	return {
+		document,
+		version: r.version,
+		warnings: r.warnings,
+		get origins() {
+			return (made ??= origins());
+		},
+		set origins(v: GateOrigin[]) {
+			made = v;
+		},
+		decimals: d,
+		decompositions,
+		notes
+	};
 }

@@ -59,8 +59,6 @@ const PLAIN_GATES: Record<string, { gate: GateItem['gate']; angle?: Num | 'param
 };
 /** The reader's fast path for plain gate calls (tests turn it off to compare with the token path). */
 export const FAST_PATH = { enabled: true, /** statements it has read (for the tests) */ read: 0 };
-/** Origins of gates read by the fast path share this (no gate definitions were expanded). */
-const NO_DEFINITIONS: GateOrigin['definitions'] = Object.freeze([]) as unknown as GateOrigin['definitions'];
 for (const [name, builtin] of Object.entries(BUILTINS))
 	if (builtin.qubits > 0 && name !== 'id') (FAST_BY_FIRST[name.charCodeAt(0)] ??= []).push({ name, builtin, plain: PLAIN_GATES[name] });
 const isAsciiIdentStart = (c: number) => (c >= 97 && c <= 122) || (c >= 65 && c <= 90) || c === 95;
@@ -332,19 +330,19 @@ export class Reader {
 				if (p.difference > this.decimals.largestDifferenceRadians) this.decimals.largestDifferenceRadians = p.difference;
 			} else if (p.decimal === 2) this.decimals.inexact++;
 		}
-		const origin: GateOrigin = { qasm: name, call: { line, column: nameStart - lineStart + 1 }, definitions: NO_DEFINITIONS };
+		const call = { line, column: nameStart - lineStart + 1 };
 		const plain = fast.plain;
 		try {
 			if (plain !== undefined) {
-				this.emitter.pushPlain(plain.gate, this.emitter.qubitList(qs), origin, plain.angle === 'param' ? params[0].value : plain.angle);
+				this.emitter.pushPlain(plain.gate, this.emitter.qubitList(qs), name, call, plain.angle === 'param' ? params[0].value : plain.angle);
 				return true;
 			}
 			const values: Num[] = new Array(params.length);
 			for (let k = 0; k < params.length; k++) values[k] = params[k].value;
-			const ops = b.build(values, qs, origin);
+			const ops = b.build(values, qs, { qasm: name, call, definitions: [] });
 			for (let k = 0; k < ops.length; k++) this.emitter.emit(ops[k]);
 		} catch (e) {
-			if (e instanceof RangeError) this.err(e instanceof BudgetExceeded && e.site && 'line' in e.site ? e.site : origin.call, e.message);
+			if (e instanceof RangeError) this.err(e instanceof BudgetExceeded && e.site && 'line' in e.site ? e.site : call, e.message);
 			throw e;
 		}
 		return true;
