@@ -6,11 +6,11 @@
  */
 import { dyadic } from '../../angle.js';
 import { GateCode, type PlacedRegister } from '../../circuit.js';
-import { mulKeys, type IntPoly } from '../spec.js';
+import type { IntPoly } from '../spec.js';
 import { compareSection, requiredValue } from './compare.js';
 import { anfToPoly, anfXorProduct, Mismatch, Outside, polyTimes, productOf, signOfMask } from './poly.js';
 import { findSegment, laterHadamardOn, layoutName, probeSegment } from './sections.js';
-import { addGlobal, addPhase, anfOf, lineOf, qname, termName, valueOf, type FourierQubit, type PhaseTerm, type Prover } from './state.js';
+import { addGlobal, addPhase, anfOf, settleFlips, lineOf, qname, termName, valueOf, type FourierQubit, type PhaseTerm, type Prover } from './state.js';
 
 /** A QFT on r from gate g: each qubit j of level m starts with phase value/2^m. Returns true when the QFT itself is wrong (refuted). */
 export function enterSection(p: Prover, g: number, r: PlacedRegister): boolean {
@@ -24,7 +24,7 @@ export function enterSection(p: Prover, g: number, r: PlacedRegister): boolean {
 			const a = dyadic(coef, levels[j]);
 			if (a.exact && a.num !== 0n) phase.set(key, { angle: a, from: [] });
 		}
-		p.state[r.offset + j] = { kind: 'f', phase, mask: new Map(), level: levels[j], reg: r.name };
+		p.state[r.offset + j] = { kind: 'f', phase, mask: new Map(), level: levels[j], reg: r.name, flips: new Map(), lastFlip: -1 };
 	}
 	p.sections.push({ register: r.name, qftGates: [seg[0], seg[seg.length - 1]], iqftGates: [-1, -1], levels, layout: layoutName(levels), required: 'spec' });
 	return p.wrongTerms.length > 0;
@@ -38,6 +38,7 @@ export function leaveSection(p: Prover, g: number, r: PlacedRegister): boolean {
 	const sec = [...p.sections].reverse().find((x) => x.register === r.name && x.iqftGates[0] < 0);
 	checkLevelsAndMasks(p, g, r, levels);
 	const last = !laterHadamardOn(p.c, r, seg[seg.length - 1] + 1);
+	for (let j = 0; j < r.size; j++) settleFlips(p, p.state[r.offset + j] as FourierQubit, g);
 	const want = requiredValue(p, r, levels, last, sec, g);
 	compareSection(p, r, want);
 	if (sec) sec.iqftGates = [seg[0], seg[seg.length - 1]];
@@ -69,24 +70,24 @@ export function flip(p: Prover, g: number, qs: number[], nc: number): void {
 	const t = p.state[qs[nc]];
 	if (t.kind === 'c') anfXorProduct(t.anf, ctl, g);
 	else if (t.kind === 'f') {
-		if (!p.goal.ignorePhase) flipPhaseIntoGlobal(p, g, t, ctl, qs[nc]);
+		if (!p.goal.ignorePhase) addFlip(g, t, ctl);
 		anfXorProduct(t.mask, ctl, g);
 	} else throw new Outside(`gate ${g} flips ${qname(p, qs[nc])} after an inverse QFT; the prover does not expand computed sums bit by bit`, g);
 }
 
-/** X^k on (|0⟩ + e^{iφ}|1⟩) adds k·φ to the global phase; φ = (1 − 2·mask)·(stored phase). */
-function flipPhaseIntoGlobal(p: Prover, g: number, t: FourierQubit, ctl: ReturnType<typeof anfOf>[], target: number): void {
+/**
+ * X^c on (|0⟩ + e^{iφ}|1⟩) adds c·φ to the global phase, φ = (1 − 2·mask)·(stored phase): the
+ * factor k = c·(1 − 2·mask) joins the qubit's pending flips, settled by `settleFlips`.
+ */
+function addFlip(g: number, t: FourierQubit, ctl: ReturnType<typeof anfOf>[]): void {
 	let k = productOf(ctl, g);
 	if (t.mask.size) k = polyTimes(k, signOfMask(t.mask, g), g);
-	for (const [key, term] of t.phase) {
-		if (!term.angle.exact) throw new Outside(`gate ${g} flips ${qname(p, target)} whose phase is inexact`, g);
-		const shifted: IntPoly = new Map();
-		for (const [kk, v] of k) {
-			const m = mulKeys(kk, key);
-			shifted.set(m, (shifted.get(m) ?? 0n) + v);
-		}
-		addGlobal(p, shifted, term.angle, g);
+	for (const [key, v] of k) {
+		const x = (t.flips.get(key) ?? 0n) + v;
+		if (x === 0n) t.flips.delete(key);
+		else t.flips.set(key, x);
 	}
+	t.lastFlip = g;
 }
 
 /** P, RZ, CP, MCP at gate g (kind k) on qubits qs: at most one may be a Fourier qubit (else entangling). */
@@ -106,6 +107,7 @@ export function phaseGate(p: Prover, g: number, k: number, qs: number[]): void {
 	}
 	const f = p.state[fs[0]] as FourierQubit;
 	addPhase(
+		p,
 		f,
 		theta,
 		qs.filter((q) => q !== fs[0]).map((q) => anfOf(p, q, g, 'control of a phase')),

@@ -6,7 +6,7 @@
  */
 import { addAngles, dyadic, formatTurns, isZeroSigned, negateAngle, reduceSigned, scaleAngle, subtractAngles, type Angle } from '../../angle.js';
 import { gateProvenance, qubitLabel, type LoweredCircuit, type PlacedRegister } from '../../circuit.js';
-import type { IntPoly } from '../spec.js';
+import { mulKeys, type IntPoly } from '../spec.js';
 import type { ProofGoal, RegisterMismatch, SectionInfo, WrongTerm } from '../proof.js';
 import { anfToPoly, MAX_POLY_TERMS, Outside, polyTimes, productOf, signOfMask, type Anf } from './poly.js';
 
@@ -19,7 +19,12 @@ export interface PhaseTerm {
 
 /** A qubit: classical (`c`, its ANF), Fourier (`f`, phase polynomial, X mask, level, register) or a bit of a verified section value (`v`). */
 export type QState = { kind: 'c'; anf: Anf } | FourierQubit | { kind: 'v'; reg: string; bit: number };
-export type FourierQubit = { kind: 'f'; phase: Map<string, PhaseTerm>; mask: Anf; level: number; reg: string };
+/**
+ * A Fourier qubit. `flips` (W) is Σ kᵢ over the X gates on it so far, kᵢ = (product of the
+ * controls)·(1 − 2·mask then): a flip adds kᵢ·φ to the global phase, and adding those at each flip
+ * costs the whole polynomial every time. They are settled at once instead (see {@link settleFlips}).
+ */
+export type FourierQubit = { kind: 'f'; phase: Map<string, PhaseTerm>; mask: Anf; level: number; reg: string; flips: IntPoly; lastFlip: number };
 
 /** The prover's state over one circuit. */
 export interface Prover {
@@ -69,10 +74,17 @@ export function addGlobal(p: Prover, poly: IntPoly, theta: Angle, g: number, sca
 	if (p.global.size > MAX_POLY_TERMS) throw new Outside('the global phase polynomial grew beyond 4 million terms', g);
 }
 
-/** Add θ·∏factors·(1 − 2·mask) to a Fourier qubit's phase polynomial. */
-export function addPhase(f: FourierQubit, theta: Angle, factors: Anf[], g: number): void {
+/**
+ * Add θ·∏factors·(1 − 2·mask) to a Fourier qubit's phase polynomial. With flips pending (W ≠ 0)
+ * the global phase gets −W·(this increment) now; {@link settleFlips} adds W·(whole phase) later.
+ */
+export function addPhase(p: Prover, f: FourierQubit, theta: Angle, factors: Anf[], g: number): void {
 	let poly = productOf(factors, g);
 	if (f.mask.size) poly = polyTimes(poly, signOfMask(f.mask, g), g);
+	if (f.flips.size && !p.goal.ignorePhase) {
+		if (!theta.exact) throw new Outside(`gate ${g} adds an inexact phase to a flipped Fourier qubit`, g);
+		addGlobal(p, polyTimes(poly, f.flips, g), theta, g, -1n);
+	}
 	for (const [k, v] of poly) {
 		const a = scaleAngle(theta, v);
 		const t = f.phase.get(k);
@@ -82,6 +94,33 @@ export function addPhase(f: FourierQubit, theta: Angle, factors: Anf[], g: numbe
 		} else f.phase.set(k, { angle: a, from: [[g, a]] });
 	}
 	if (f.phase.size > MAX_POLY_TERMS) throw new Outside('a phase polynomial grew beyond 4 million terms', g);
+}
+
+/**
+ * Settle the global phase of a Fourier qubit's flips. Flip i adds kᵢ·Sᵢ (Sᵢ = the stored phase
+ * then, the sum of the increments sⱼ made before it), so all flips add Σⱼ sⱼ·(W − Wⱼ), W the sum
+ * of every kᵢ and Wⱼ the sum when sⱼ was made. {@link addPhase} added −sⱼ·Wⱼ as it went; this adds
+ * W·S and clears W. Exact: a pair of flips by the same control cancels in W, so the work is the
+ * size of W times the phase once, not the phase at every flip.
+ */
+export function settleFlips(p: Prover, f: FourierQubit, g: number): void {
+	if (!f.flips.size || p.goal.ignorePhase) {
+		f.flips = new Map();
+		return;
+	}
+	for (const [key, term] of f.phase) {
+		if (!term.angle.exact) throw new Outside(`gate ${f.lastFlip} flips ${f.reg}'s Fourier qubit whose phase is inexact`, f.lastFlip);
+		const shifted: IntPoly = new Map();
+		for (const [kk, v] of f.flips) {
+			const m = mulKeys(kk, key);
+			const x = (shifted.get(m) ?? 0n) + v;
+			if (x === 0n) shifted.delete(m);
+			else shifted.set(m, x);
+		}
+		addGlobal(p, shifted, term.angle, f.lastFlip);
+	}
+	f.flips = new Map();
+	void g;
 }
 
 /** Register value as an integer polynomial, from classical bits or a verified section value. */
