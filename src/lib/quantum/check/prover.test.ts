@@ -5,7 +5,7 @@
  * Beauregard 2003 (quant-ph/0205095) doubly controlled modular adder (Fig. 5) and controlled
  * modular multiplier (Fig. 6); Draper 2000 (quant-ph/0008033) Fourier adder.
  */
-import { describe, expect, it } from 'vitest';
+import { afterAll, describe, expect, it } from 'vitest';
 import { lowerCircuit } from '../lower.js';
 import { importQasm } from '../qasm/import.js';
 import type { CircuitDocument } from '../circuit.js';
@@ -111,6 +111,55 @@ describe('Beauregard controlled modular multiplier (Fig. 6), n = 5, N = 21, a = 
 	});
 });
 
+describe('a phase moved onto the whole state by flips of a Fourier qubit', () => {
+	// X·p(θ)·X = e^{iθ}·p(−θ) (a textbook identity: X swaps |0⟩ and |1⟩). Under a control c the
+	// qubit's own phase is θ·(1 − 2c), and e^{iθ·c} lands on the whole state. Adding cp(2θ) c,t and
+	// p(−θ) t puts the qubit's phase back to 0, so only the whole-state phase θ·c is left: a phase
+	// that depends on the input, which the check must refute (and the sweep, comparing the phase of
+	// every input with the first, confirms). Cancelling it with p(−θ) on the control proves it.
+	type Q = { register: string; index: number };
+	const q = (register: string, index: number): Q => ({ register, index });
+	const t = q('b', 1);
+	const gate = (id: string, g: 'x' | 'cx' | 'ccx' | 'p' | 'cp' | 'mcp', qubits: Q[], angle?: string) => ({ id, type: 'gate' as const, gate: g, qubits, ...(angle ? { angle } : {}) });
+	const doc = (ctl: Q[], turns: string, premask: boolean, fix: boolean): CircuitDocument => {
+		const x = ctl.length === 1 ? gate('x1', 'cx', [...ctl, t]) : gate('x1', 'ccx', [...ctl, t]);
+		const twice = ctl.length === 1 ? gate('k', 'cp', [...ctl, t], `2*${turns} turn`) : gate('k', 'mcp', [...ctl, t], `2*${turns} turn`);
+		const onCtl = ctl.length === 1 ? gate('fix', 'p', ctl, `-${turns} turn`) : gate('fix', 'cp', ctl, `-${turns} turn`);
+		return {
+			format: 'orrery.circuit',
+			version: 1,
+			title: 'flip phase',
+			registers: [{ name: 'a', size: 2 }, { name: 'c', size: 1 }, { name: 'b', size: 3 }],
+			body: [
+				{ id: 'f', type: 'qft', register: 'b', swaps: false },
+				...(premask ? [gate('m1', 'x', [t])] : []),
+				x,
+				gate('p1', 'p', [t], `${turns} turn`),
+				{ ...x, id: 'x2' },
+				twice,
+				gate('p2', 'p', [t], `-${turns} turn`),
+				...(premask ? [gate('m2', 'x', [t])] : []),
+				...(fix ? [onCtl] : []),
+				{ id: 'i', type: 'iqft', register: 'b', swaps: false }
+			],
+			specs: ['b = (b + 8*a + 8*c) mod 8']
+		};
+	};
+	for (const ctl of [[q('c', 0)], [q('a', 0), q('c', 0)]])
+		for (const turns of ['1/2', '1/4', '1/8'])
+			for (const premask of [false, true])
+				it(`controls ${ctl.map((x) => `${x.register}[${x.index}]`).join('·')}, θ = ${turns} turn${premask ? ', qubit already flipped' : ''}: refuted on the phase; proved once the control pays it back`, () => {
+					const bad = run(doc(ctl, turns, premask, false));
+					agrees(bad);
+					expect([bad.proof.prover, bad.proof.status]).toEqual(['fourier', 'refuted']);
+					expect(bad.failures.every((f) => f.reason === 'phase')).toBe(true);
+					expect(bad.wrongTerms.some((w) => w.where === 'phase')).toBe(true);
+					const good = run(doc(ctl, turns, premask, true));
+					agrees(good);
+					expect([good.proof.prover, good.proof.status]).toEqual(['fourier', 'proved']);
+				});
+});
+
 describe('phases are part of the spec (issue 13)', () => {
 	const adder = (rotation: 'cp' | 'crz') => lowerCircuit(importQasm(fourierAdderQasm(4, rotation)).document);
 	it('a 4-bit Fourier adder with cp is proved, values and phase', () => {
@@ -175,6 +224,12 @@ describe('random conjugated circuits: the prover agrees with the exhaustive swee
 	type G = { gate: 'x' | 'cx' | 'ccx' | 'p' | 'cp' | 'mcp' | 'rz'; qubits: Q[]; k?: number; m?: number };
 	const inverse = (g: G): G => (g.k === undefined ? g : { ...g, k: -g.k });
 	const item = (g: G, i: number) => ({ id: `g${i}`, type: 'gate' as const, gate: g.gate, qubits: g.qubits, ...(g.k !== undefined ? { angle: `${g.k}*pi/${2 ** (g.m! - 1)}` } : {}) });
+	const slips: string[] = [];
+	afterAll(() => {
+		// The slips must exercise the Fourier-form prover both ways (counted over the 40 seeds).
+		expect(slips.filter((x) => x === 'fourier refuted').length).toBeGreaterThan(30);
+		expect(slips.filter((x) => x === 'fourier proved').length).toBeGreaterThan(30);
+	});
 	for (let seed = 1; seed <= 40; seed++)
 		it(`seed ${seed}`, () => {
 			const r = rng(seed);
@@ -213,6 +268,24 @@ describe('random conjugated circuits: the prover agrees with the exhaustive swee
 			// without a domain the Fourier-form prover may take it; a domain (true for every input) makes
 			// the general prover run: both must agree with the sweep
 			// ('c == 1' fixes an input bit: the general prover starts it as a constant)
+			// A phase slip on the way back (one rotation's k off by one) keeps every mask balanced, so only
+			// the phases judge it: the global-phase terms that flips move between phases must be exact.
+			// The spec reads a and c (8·(a + c) vanishes mod 8) so they are inputs of the Fourier-form
+			// prover, which runs without a domain.
+			const phases = back.map((g, i) => (g.k !== undefined ? i : -1)).filter((i) => i >= 0);
+			if (phases.length) {
+				const at = phases[Math.floor(r() * phases.length)];
+				const slipped = run({ ...make(back.map((g, i) => (i === at ? { ...g, k: g.k! + 1 } : g))), specs: ['b = (b + 8*a + 8*c) mod 8'] });
+				expect(slipped.exhaustive).toBe(true);
+				expect(slipped.cases).toBe(64);
+				agrees(slipped);
+				if (slipped.proof.status === 'refuted') confirmed(slipped);
+				slips.push(`${slipped.proof.prover} ${slipped.proof.status}`);
+				// and without the slip, the same inputs: proved by the Fourier form
+				const whole = run({ ...make(back), specs: ['b = (b + 8*a + 8*c) mod 8'] });
+				agrees(whole);
+				slips.push(`${whole.proof.prover} ${whole.proof.status}`);
+			}
 			for (const assume of [[], ['c < 2'], ['c == 1'], ['a == 2']]) {
 				const right = run({ ...make(back), assume });
 				agrees(right);

@@ -100,8 +100,9 @@ export function addPhase(p: Prover, f: FourierQubit, theta: Angle, factors: Anf[
  * Settle the global phase of a Fourier qubit's flips. Flip i adds kᵢ·Sᵢ (Sᵢ = the stored phase
  * then, the sum of the increments sⱼ made before it), so all flips add Σⱼ sⱼ·(W − Wⱼ), W the sum
  * of every kᵢ and Wⱼ the sum when sⱼ was made. {@link addPhase} added −sⱼ·Wⱼ as it went; this adds
- * W·S and clears W. Exact: a pair of flips by the same control cancels in W, so the work is the
- * size of W times the phase once, not the phase at every flip.
+ * W·S and clears W. Exact. W telescopes: cᵢ·(1 − 2·mᵢ) = mᵢ₊₁ − mᵢ for bits, so W is the current
+ * mask's own polynomial: 0 whenever the qubit is unflipped (the inverse QFT refutes a flipped one
+ * anyway). The work is the size of W per phase increment, not the whole phase at every flip.
  */
 export function settleFlips(p: Prover, f: FourierQubit, g: number): void {
 	if (!f.flips.size || p.goal.ignorePhase) {
