@@ -4,6 +4,7 @@ import { importQasm } from './qasm/import.js';
 import { QasmError } from './qasm/lexer.js';
 import { lowerCircuit, LoweringError } from './lower.js';
 import { parseCircuitDocument } from './schema.js';
+import { mulberry32 } from './testing/rng.js';
 
 // Seeded fuzzing (issue 10): mutated OpenQASM 2/3 files and circuit documents must each end in a
 // result or a positioned message (file:line:column, or a JSON path) within their work budget;
@@ -14,17 +15,6 @@ const SEED = 0x0a11e10;
 const QASM_CASES = 360;
 const DOC_CASES = 240;
 
-/** mulberry32 (a small public-domain PRNG): deterministic from its seed. */
-function rng(seed: number) {
-	let a = seed >>> 0;
-	return () => {
-		a = (a + 0x6d2b79f5) >>> 0;
-		let t = a;
-		t = Math.imul(t ^ (t >>> 15), t | 1);
-		t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-		return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-	};
-}
 
 const fixtures = new URL('./qasm/fixtures/', import.meta.url);
 const hostile = new URL('../../../tests/fixtures/hostile/', import.meta.url);
@@ -71,7 +61,7 @@ const LIMITS = { maxGates: 20_000, maxCalls: 20_000 };
 
 describe('fuzz: mutated OpenQASM files', () => {
 	it(`${QASM_CASES} mutants (seed ${SEED}) each end in a document or a positioned message`, () => {
-		const r = rng(SEED);
+		const r = mulberry32(SEED);
 		const problems: string[] = [];
 		let accepted = 0;
 		for (let k = 0; k < QASM_CASES; k++) {
@@ -150,7 +140,7 @@ function mutateJson(doc: unknown, r: () => number): unknown {
 
 describe('fuzz: mutated circuit documents', () => {
 	it(`${DOC_CASES} mutants (seed ${SEED}) each end in a lowered circuit or a message naming a JSON path`, () => {
-		const r = rng(SEED ^ 0x5eed);
+		const r = mulberry32(SEED ^ 0x5eed);
 		const seeds = docSeeds();
 		const problems: string[] = [];
 		for (let k = 0; k < DOC_CASES; k++) {

@@ -3,6 +3,7 @@ import { afterEach, describe, expect, it } from 'vitest';
 import { importQasm } from './import.js';
 import { FAST_PATH } from './parser.js';
 import { exporterStyleQasm } from '../bench/import-bench.js';
+import { mulberry32 } from '../testing/rng.js';
 
 // The reader's fast path (`parser.ts: fastCall`) reads plain gate calls straight from the text.
 // Its reference is the token path of the same reader: with the fast path off, every statement is
@@ -144,18 +145,8 @@ describe('the fast path reads plain gate calls exactly as the token path', () =>
 	});
 });
 
-// Seeded mutations (the same generator as fuzz.test.ts, mulberry32): the outcome must not depend
+// Seeded mutations (mulberry32, as in fuzz.test.ts): the outcome must not depend
 // on which path read a statement.
-function rng(seed: number) {
-	let a = seed >>> 0;
-	return () => {
-		a = (a + 0x6d2b79f5) >>> 0;
-		let t = a;
-		t = Math.imul(t ^ (t >>> 15), t | 1);
-		t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-		return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-	};
-}
 const PIECES = ['(', ')', ';', 'q[', ']', '[0]', ',', ' ', '\n', '//', '/*', '*/', 'pi', '-', '0.785398', 'h', 'cx', 'u1', 'q', 'r[1]', 'qreg r[2];', 'const float pi = 1;', '$', 'é', 'π', '_', '1e', '{', '}'];
 
 describe('seeded mutations read the same both ways', () => {
@@ -169,7 +160,7 @@ describe('seeded mutations read the same both ways', () => {
 				.filter((f) => /\.qasm3?$/.test(f))
 				.map((f) => readFileSync(new URL(f, fixtures), 'utf8'))
 		];
-		const r = rng(0x5eed13);
+		const r = mulberry32(0x5eed13);
 		for (let k = 0; k < 400; k++) {
 			let t = seeds[k % seeds.length];
 			const steps = 1 + Math.floor(r() * 3);

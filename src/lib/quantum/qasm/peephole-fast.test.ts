@@ -4,6 +4,7 @@ import { recogniseDecompositions, type PeepholeOptions } from './peephole.js';
 import { recogniseDecompositionsReference } from './peephole-reference.js';
 import { importQasm } from './import.js';
 import { exporterStyleQasm } from '../bench/import-bench.js';
+import { mulberry32 } from '../testing/rng.js';
 
 // `peephole.ts` (parallel arrays, regions checked before they are rewritten, cancellation tried
 // only near rewritten gates) against its plain reference `peephole-reference.ts` (one object per
@@ -12,17 +13,6 @@ import { exporterStyleQasm } from '../bench/import-bench.js';
 // Every rule is proved as a matrix identity in peephole.test.ts; this file only checks that the
 // fast version makes the same choices.
 
-/** mulberry32 (a small public-domain PRNG): deterministic from its seed. */
-function rng(seed: number) {
-	let a = seed >>> 0;
-	return () => {
-		a = (a + 0x6d2b79f5) >>> 0;
-		let t = a;
-		t = Math.imul(t ^ (t >>> 15), t | 1);
-		t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-		return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-	};
-}
 
 const ANGLES = ['1/2^3 turn', '7/2^3 turn', '1/2^4 turn', '15/2^4 turn', '1/2^1 turn', '3/2^5 turn', '29/2^5 turn', '~0.1234', '0 turn', '1/2^2 turn', '3/2^2 turn'];
 
@@ -122,7 +112,7 @@ function expectSameAsReference(doc: CircuitDocument, options: PeepholeOptions = 
 
 describe('the fast peephole makes the same choices as its reference', () => {
 	it('300 random gate lists on 4 to 7 qubits, with every rule firing somewhere', () => {
-		const r = rng(0xc0ffee);
+		const r = mulberry32(0xc0ffee);
 		const fired = { regions: 0, toffolis: 0, toffoliPhases: 0, cancelledPairs: 0, rzAsPhase: 0, stopped: 0 };
 		for (let k = 0; k < 300; k++) {
 			const doc = randomDoc(r, 4 + (k % 4), 20 + Math.floor(r() * 200));
@@ -140,7 +130,7 @@ describe('the fast peephole makes the same choices as its reference', () => {
 	});
 
 	it('long lists (cancellation windows of 256 gates, gates far apart) and an imported exporter-style file', () => {
-		const r = rng(0xbeef);
+		const r = mulberry32(0xbeef);
 		for (let k = 0; k < 4; k++) expectSameAsReference(randomDoc(r, 12 + k, 3000));
 		const doc = importQasm(exporterStyleQasm(20_000), { recogniseDecompositions: false }).document;
 		expect(expectSameAsReference(doc).regions).toBeGreaterThan(0);

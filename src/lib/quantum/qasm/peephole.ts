@@ -489,24 +489,29 @@ class RegionWalk {
 			for (const [mono, coef] of terms) {
 				const a = scaleAngle(G.angle[g]!, coef);
 				if (isZero(a)) continue;
-				const qs = [...mono].sort((x, y) => (x === target ? 1 : y === target ? -1 : x - y));
-				const gate = qs.length === 1 ? 'p' : qs.length === 2 ? 'cp' : 'mcp';
-				const it: GateItem = {
-					id: `${item.id}r${++m}`,
-					type: 'gate',
-					gate,
-					qubits: qs.map((q) => ({ ...refs[q] })),
-					angle: angleString(a),
-					...(item.source ? { source: item.source } : {}),
-					label: `${gate} from a ${item.gate} between CNOTs`
-				};
-				rep.push(G.add(it, DIAG, qs, a, true));
+				rep.push(madePhase(G, refs, item, mono, target, a, `${item.id}r${++m}`, 'between CNOTs'));
 			}
 			if (item.gate === 'rz') rz++;
 			made.set(k, rep);
 		}
 		return { made, rz };
 	}
+}
+
+/** A phase on the qubits `set` (`target` last) made from `item`: appended to G as a made diagonal gate. */
+function madePhase(G: Gates, refs: QubitRef[], item: GateItem, set: number[], target: number, angle: Angle, id: string, why: string): number {
+	const qs = [...set].sort((x, y) => (x === target ? 1 : y === target ? -1 : x - y));
+	const gate = qs.length === 1 ? 'p' : qs.length === 2 ? 'cp' : 'mcp';
+	const it: GateItem = {
+		id,
+		type: 'gate',
+		gate,
+		qubits: qs.map((q) => ({ ...refs[q] })),
+		angle: angleString(angle),
+		...(item.source ? { source: item.source } : {}),
+		label: `${gate} from a ${item.gate} ${why}`
+	};
+	return G.add(it, DIAG, qs, angle, true);
 }
 
 /**
@@ -598,18 +603,7 @@ function toffoliPhases(G: Gates, at: Int32Array, removed: Uint8Array, refs: Qubi
 			let m = 0;
 			for (const [set, angle] of terms) {
 				if (isZero(angle)) continue;
-				const qs = [...set].sort((x, y) => (x === target ? 1 : y === target ? -1 : x - y));
-				const gate = qs.length === 1 ? 'p' : qs.length === 2 ? 'cp' : 'mcp';
-				const it: GateItem = {
-					id: `${item.id}a${++m}`,
-					type: 'gate',
-					gate,
-					qubits: qs.map((q) => ({ ...refs[q] })),
-					angle: angleString(angle),
-					...(item.source ? { source: item.source } : {}),
-					label: `${gate} from a ${item.gate} between Toffolis onto ${refs[t].register}[${refs[t].index}]`
-				};
-				made.push(G.add(it, DIAG, qs, angle, true));
+				made.push(madePhase(G, refs, item, set, target, angle, `${item.id}a${++m}`, `between Toffolis onto ${refs[t].register}[${refs[t].index}]`));
 			}
 			if (item.gate === 'rz') report.rzAsPhase++;
 			rewrite.set(k, made);
