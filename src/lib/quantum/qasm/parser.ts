@@ -286,7 +286,8 @@ export class Reader {
 		}
 		if (params.length !== b.params) return false;
 		// Qubit arguments reg[int], at least one.
-		const qs: number[] = [];
+		const qs = this.fastQubits;
+		qs.length = 0;
 		for (;;) {
 			const regStart = i;
 			if (!isAsciiIdentStart(c)) return false;
@@ -339,7 +340,7 @@ export class Reader {
 			}
 			const values: Num[] = new Array(params.length);
 			for (let k = 0; k < params.length; k++) values[k] = params[k].value;
-			const ops = b.build(values, qs, { qasm: name, call, definitions: [] });
+			const ops = b.build(values, qs.slice(), { qasm: name, call, definitions: [] });
 			for (let k = 0; k < ops.length; k++) this.emitter.emit(ops[k]);
 		} catch (e) {
 			if (e instanceof RangeError) this.err(e instanceof BudgetExceeded && e.site && 'line' in e.site ? e.site : call, e.message);
@@ -377,6 +378,7 @@ export class Reader {
 	}
 	private recentNext = 0;
 	private readonly fastParams: FastParam[] = [];
+	private readonly fastQubits: number[] = [];
 	/** Gate parameter source text → value and how it counts as a printed decimal (0 not one, 1 exact, 2 inexact). */
 	private readonly paramCache = new Map<string, FastParam>();
 	private lastDecimal = 0;

@@ -243,20 +243,21 @@ export function recogniseDecompositions(doc: CircuitDocument, options: PeepholeO
 	const region = new RegionWalk(G, list1, maxRegion);
 	for (let i = 0; i < len1; ) {
 		if (G.kind[list1[i]] === CX && !report.stoppedAtLimit) {
-			const r = region.check(i);
-			work += r.visited;
+			const ok = region.check(i);
+			const end = region.end;
+			work += region.visited;
 			if (work > maxWork) report.stoppedAtLimit = true;
-			if (r.ok) {
+			if (ok) {
 				report.regions++;
-				const rewrite = region.rewrite(i, r.end, refs);
+				const rewrite = region.rewrite(i, end, refs);
 				report.rzAsPhase += rewrite.rz;
-				for (let k = i; k <= r.end; k++) {
+				for (let k = i; k <= end; k++) {
 					const from = orig1 ? orig1[k] : k;
 					const rep = rewrite.made.get(k);
 					if (rep === undefined) put(list1[k], from);
 					else for (const g of rep) put(g, from);
 				}
-				i = r.end + 1;
+				i = end + 1;
 				continue;
 			}
 		}
@@ -433,18 +434,27 @@ class RegionWalk {
 		return false;
 	}
 
-	check(start: number): { ok: boolean; end: number; visited: number } {
+	/** Set by {@link check}: gates visited (work) and, when the region closes, its last position. */
+	visited = 0;
+	end = 0;
+
+	/** Whether the region from `start` closes (then at {@link end}); {@link visited} counts the work. */
+	check(start: number): boolean {
 		const { G, list, parity } = this;
 		parity.clear();
 		let visited = 0;
+		this.end = start;
 		const stop = Math.min(list.length, start + this.maxRegion);
 		for (let k = start; k < stop; k++) {
 			visited++;
 			const g = list[k];
 			const kind = G.kind[g];
 			if (kind === CX) {
-				if (!this.cnot(k)) return { ok: false, end: start, visited };
-				if (parity.size === 0) return { ok: true, end: k, visited };
+				if (!this.cnot(k)) return this.done(visited, false);
+				if (parity.size === 0) {
+					this.end = k;
+					return this.done(visited, true);
+				}
 				continue;
 			}
 			if (kind === DIAG) {
@@ -453,16 +463,20 @@ class RegionWalk {
 				// Too many monomials fails the region; at most ∏(2^|parity| − 1) of them.
 				let bound = 1;
 				for (const q of qs) bound *= (1 << (parity.get(q)?.length ?? 1)) - 1;
-				if (bound > MAX_TERMS && expandProduct(qs.map((q) => parity.get(q) ?? [q])) === null) return { ok: false, end: start, visited };
+				if (bound > MAX_TERMS && expandProduct(qs.map((q) => parity.get(q) ?? [q])) === null) return this.done(visited, false);
 				continue;
 			}
 			// Any other gate may stay inside the region only if it touches no changed qubit and no
 			// qubit a changed one depends on: then it acts on the same values with or without the CNOTs.
-			if (kind === BARRIER) return { ok: false, end: start, visited };
+			if (kind === BARRIER) return this.done(visited, false);
 			const qs = G.qs[g];
-			for (let i = 0; i < qs.length; i++) if (this.inDirty(qs[i])) return { ok: false, end: start, visited };
+			for (let i = 0; i < qs.length; i++) if (this.inDirty(qs[i])) return this.done(visited, false);
 		}
-		return { ok: false, end: start, visited };
+		return this.done(visited, false);
+	}
+	private done(visited: number, ok: boolean): boolean {
+		this.visited = visited;
+		return ok;
 	}
 
 	/** The gates made for a region known to close at `end`: per list position, its replacement (CNOTs: none). */
