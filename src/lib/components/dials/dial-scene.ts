@@ -3,7 +3,7 @@
 //
 // Angles are in turns; a dial's 0 is at twelve o'clock and angles grow clockwise, as a
 // reader expects of a dial (the direction is stated in the board's legend).
-import { Application, BitmapText, Circle, Container, Graphics, Text, type FederatedPointerEvent } from 'pixi.js';
+import { Application, BitmapText, Circle, Container, Graphics, GraphicsContext, RenderTexture, Text, type FederatedPointerEvent } from 'pixi.js';
 // The pages' content security policy has no 'unsafe-eval': this swaps pixi's generated shader
 // and uniform code (new Function) for prebuilt functions. Imported after pixi.js, before any Application.
 import 'pixi.js/unsafe-eval';
@@ -57,6 +57,8 @@ interface Dial {
 }
 
 export interface DialSceneOptions {
+	/** The off-screen start-up drawing (see warmUp) waits for this; at once without it. */
+	warmUpAfter?: () => Promise<void>;
 	onselect?: (qubit: number) => void;
 	onhover?: (qubit: number | null, x: number, y: number) => void;
 }
@@ -77,6 +79,33 @@ export interface DialScene {
 	destroy(): void;
 }
 
+const TITLE_STYLE = { fontFamily: 'JetBrains Mono Variable', fontSize: 13, fill: C.paper } as const;
+const SUB_STYLE = { fontFamily: 'JetBrains Mono Variable', fontSize: 12, fill: C.tick, align: 'center' } as const;
+const HEADER_STYLE = { fontFamily: 'JetBrains Mono Variable', fontSize: 14, fill: C.header, fontWeight: '600' } as const;
+
+/**
+ * Draws one throwaway dial into an off-screen texture right after start-up, so the GPU programs
+ * get compiled and the labels' glyph atlases get made while the engine worker is still running
+ * the circuit, not inside the first frame that shows the dials (in software WebGL that frame
+ * took 0.4 to 0.7 s, most of it compiling shaders). Nothing of it is ever shown.
+ */
+function warmUp(app: Application) {
+	const probe = new Container();
+	const g = new Graphics();
+	g.circle(0, 0, RADIUS + 6).fill({ color: C.panel });
+	g.circle(0, 0, RADIUS).stroke({ width: 2, color: C.ring });
+	g.moveTo(0, 0).lineTo(0, -RADIUS).stroke({ width: 1, color: C.tick, alpha: 0.8 });
+	const face = new Container();
+	face.addChild(g, new BitmapText({ text: 'abcdefghijklmnopqrstuvwxyz[]0123456789', style: TITLE_STYLE }));
+	face.cacheAsTexture({ resolution: 2, antialias: true });
+	probe.addChild(face, new BitmapText({ text: 'is wants no expected angle m= bit 0123456789/.', style: SUB_STYLE }), new Text({ text: 'ab', style: HEADER_STYLE }));
+	const target = RenderTexture.create({ width: 64, height: 64 });
+	app.renderer.render({ container: probe, target });
+	face.cacheAsTexture(false);
+	probe.destroy({ children: true });
+	target.destroy(true);
+}
+
 export async function createDialScene(host: HTMLElement, opts: DialSceneOptions = {}): Promise<DialScene> {
 	const app = new Application();
 	await app.init({
@@ -94,6 +123,7 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 	app.ticker.stop();
 	host.appendChild(app.canvas);
 	app.canvas.setAttribute('aria-hidden', 'true');
+	let destroyed = false;
 
 	const world = new Container();
 	app.stage.addChild(world);
@@ -106,6 +136,8 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 	app.stage.hitArea = app.screen;
 
 	const dials = new Map<number, Dial>();
+	/** One face drawing per look (kind, level, bit, selected, small, diverged), shared by the dials. */
+	const faces = new Map<string, GraphicsContext>();
 	const headers: Text[] = [];
 	let layout: DialLayout | null = null;
 	let structureKey = '';
@@ -122,7 +154,9 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 		const res = cacheResolution();
 		if (layout.width * res > MAX_TEXTURE || layout.height * res > MAX_TEXTURE) return false;
 		if (facesLayer.isCachedAsTexture) facesLayer.cacheAsTexture(false);
-		facesLayer.cacheAsTexture({ resolution: res, antialias: true });
+		// No multisampling: in software WebGL resolving it cost the first frame 15 to 20 % of the
+		// time to first dials, and at the cache's resolution the faces look the same.
+		facesLayer.cacheAsTexture({ resolution: res, antialias: false });
 		return true;
 	}
 
@@ -131,6 +165,9 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 	let lastFrame = performance.now();
 	let dirty = true;
 	let raf = 0;
+	void (opts.warmUpAfter?.() ?? Promise.resolve()).then(() => {
+		if (!destroyed && !layout) warmUp(app);
+	});
 	const frame = (now: number) => {
 		intervals.push(now - lastFrame);
 		lastFrame = now;
@@ -155,8 +192,20 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 		const key = `${q.kind}|${q.level ?? ''}|${q.bit ?? ''}|${isSel}|${lodSmall}|${isDiverged(q)}`;
 		if (key === d.faceKey) return;
 		d.faceKey = key;
-		const g = d.face;
-		g.clear();
+		// Dials that look alike share one drawing: its geometry is built once, not once a dial.
+		let g = faces.get(key);
+		if (!g) {
+			g = new GraphicsContext();
+			faces.set(key, g);
+			drawFaceInto(g, q, isSel);
+		}
+		d.face.context = g;
+		if (layerCache === 'whole') facesDirty = true;
+		else if (d.still.isCachedAsTexture) d.still.updateCacheTexture();
+		else d.still.cacheAsTexture({ resolution: 2, antialias: true });
+	}
+
+	function drawFaceInto(g: GraphicsContext, q: DialQubit, isSel: boolean) {
 		g.circle(0, 0, RADIUS + 6).fill({ color: C.panel });
 		g.circle(0, 0, RADIUS).stroke({ width: isSel ? 3 : 2, color: isSel ? C.selected : C.ring });
 		if (isDiverged(q)) g.circle(0, 0, RADIUS + 4).stroke({ width: 1.5, color: C.diverged, alpha: 0.9 });
@@ -172,14 +221,11 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 		}
 		if (q.kind === 'classical') drawBitGlyph(g, q.bit === 1 ? 1 : 0);
 		else g.circle(0, 0, 3.5).fill({ color: C.paper });
-		if (layerCache === 'whole') facesDirty = true;
-		else if (d.still.isCachedAsTexture) d.still.updateCacheTexture();
-		else d.still.cacheAsTexture({ resolution: 2, antialias: true });
 	}
 
 	// A classical bit is its digit drawn in a small square: 1 on a filled square, 0 on an open one.
 	// Stroked shapes rather than text, so the cached face needs no font.
-	function drawBitGlyph(g: Graphics, bit: 0 | 1) {
+	function drawBitGlyph(g: GraphicsContext, bit: 0 | 1) {
 		const h = 12;
 		if (bit === 1) {
 			g.roundRect(-h, -h, 2 * h, 2 * h, 3).fill({ color: C.paper });
@@ -242,7 +288,7 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 		const groups = groupByRegister(qubits);
 		layout = layoutDials(groups, Math.max(240, app.screen.width / world.scale.x));
 		for (const h of layout.headers) {
-			const t = new Text({ text: h.register, style: { fontFamily: 'JetBrains Mono Variable', fontSize: 14, fill: C.header, fontWeight: '600' } });
+			const t = new Text({ text: h.register, style: HEADER_STYLE });
 			t.position.set(h.x, h.y);
 			world.addChild(t);
 			headers.push(t);
@@ -261,10 +307,10 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 			needle.moveTo(0, 0).lineTo(0, -(RADIUS - 5)).stroke({ width: 3, color: 0xffffff, cap: 'round' });
 			const expected = new Container();
 			expected.addChild(new Graphics().circle(0, -RADIUS, 5).stroke({ width: 2, color: C.expectedLight }));
-			const title = new BitmapText({ text: `${q.register}[${q.index}]`, style: { fontFamily: 'JetBrains Mono Variable', fontSize: 13, fill: C.paper } });
+			const title = new BitmapText({ text: `${q.register}[${q.index}]`, style: TITLE_STYLE });
 			title.anchor.set(0.5, 0);
 			title.position.set(0, RADIUS + 8);
-			const sub = new BitmapText({ text: '', style: { fontFamily: 'JetBrains Mono Variable', fontSize: 12, fill: C.tick, align: 'center' } });
+			const sub = new BitmapText({ text: '', style: SUB_STYLE });
 			sub.anchor.set(0.5, 0);
 			sub.position.set(0, RADIUS + 24);
 			const still = new Container();
@@ -477,6 +523,9 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 			app.renderer.render(app.stage);
 		},
 		destroy() {
+			destroyed = true;
+			for (const f of faces.values()) f.destroy();
+			faces.clear();
 			resizing.disconnect();
 			cancelAnimationFrame(raf);
 			app.canvas.removeEventListener('wheel', onWheel);
