@@ -12,6 +12,7 @@ import { proveCircuit } from '$lib/quantum/check/proof';
 import { specPolynomial, type IntPoly } from '$lib/quantum/check/spec';
 import { findFourierSections, type FourierSection } from '$lib/quantum/intent';
 import type { RegisterIntent } from '$lib/quantum/intent';
+import { ExpectKind, type ExpectationEvents } from '$lib/quantum/expect';
 import type { DialQubit } from '$lib/dials/dial-model';
 import type { BreakpointSpec, FailureDivergence, FrameView, GateRow, LedgerView, PositionView, RunSummary, SeekKind, WorkerRequest, WorkerResponse } from './protocol';
 
@@ -129,6 +130,21 @@ function prepareCircuit(doc: CircuitDocument): PreparedCircuit {
 	return value;
 }
 
+/**
+ * Expected angles and bits the run states after its inputs (its expectation events by kind; those
+ * at step 0 only restate the inputs, so they compare nothing).
+ */
+function statedCounts(ev: ExpectationEvents): RunSummary['stated'] {
+	let angles = 0;
+	let bits = 0;
+	for (let e = 0; e < ev.length; e++) {
+		if (ev.step[e] === 0) continue;
+		if (ev.kind[e] === ExpectKind.fourier) angles++;
+		else if (ev.kind[e] === ExpectKind.classical) bits++;
+	}
+	return { angles, bits };
+}
+
 export class EngineSession {
 	readonly circuit: LoweredCircuit;
 	readonly run: Run;
@@ -171,6 +187,7 @@ export class EngineSession {
 			boundaries: this.run.blockBoundaries(),
 			firstDivergence: first ? { step: first.step, qubit: first.qubit, label: this.labels[first.qubit], message: first.message } : null,
 			divergenceCount: this.run.divergences.length,
+			stated: statedCounts(this.run.expectations),
 			handover: this.run.handover,
 			stopped: this.run.stopped,
 			warnings: [...problems, ...this.run.intentWarnings, ...this.run.expectations.warnings.map((w) => w.message)],

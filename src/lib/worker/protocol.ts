@@ -54,6 +54,8 @@ export interface RunSummary {
 	boundaries: number[];
 	firstDivergence: { step: number; qubit: number; label: string; message: string } | null;
 	divergenceCount: number;
+	/** How many expectations the run states after step 0 (the inputs): expected Fourier angles and expected bits. */
+	stated: { angles: number; bits: number };
 	handover: { step: number; reason: string } | null;
 	stopped: { step: number; reason: string } | null;
 	warnings: string[];
