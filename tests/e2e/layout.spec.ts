@@ -149,7 +149,21 @@ test('on a phone the workbench is a readable read-only view that says editing ne
 	await page.getByTestId('step-forward').click();
 	await expect(page.getByTestId('step-readout')).toHaveText(/step 1 \//);
 	await expect(page.getByTestId('parts-shelf')).toBeHidden();
+	// The dials are readable on a phone: the board fills the width and draws each dial at least
+	// 64 px across (it drew about 45 before), with no sideways scroll.
+	const board = page.getByTestId('dial-board');
+	expect((await board.boundingBox())!.width).toBeGreaterThanOrEqual(390 - 32);
+	await expect.poll(async () => Number(await board.getAttribute('data-dial-px'))).toBeGreaterThanOrEqual(64);
+	expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(390);
+	// The selected dial's values are written beside the board in page text.
+	await expect(page.getByTestId('dial-readout')).toHaveText(/Tap a dial/);
+	await page.getByRole('tab', { name: 'Table' }).click();
+	await page.getByTestId('qubit-table').getByRole('button', { name: 'b[3]' }).click();
+	await page.getByRole('tab', { name: 'Dials' }).click();
+	await expect(page.getByTestId('dial-readout')).toContainText('selected b[3]');
+	await expect.poll(async () => Number(await board.getAttribute('data-dial-px'))).toBeGreaterThanOrEqual(64);
 	await page.screenshot({ path: 'tests/artifacts/workbench-phone-390.png', fullPage: true });
+	await board.screenshot({ path: 'tests/artifacts/workbench-phone-dials-390.png' });
 });
 
 // axe-core's own rules (WCAG 2 A/AA and best practice); serious and critical findings fail, each

@@ -32,6 +32,15 @@ const C = {
 } as const;
 
 const RADIUS = 40;
+/**
+ * A board narrower than this (a phone) lays its dials out NARROW_PER_ROW a row and starts with
+ * them filling its width, from the top, instead of shrinking the whole board into view: the dials
+ * stay large enough to read, and the rest is a drag away.
+ */
+const NARROW = 600;
+const NARROW_PER_ROW = 3;
+/** Largest first scale of a narrow board: a dial of radius 40 is drawn at most 144 px across. */
+const NARROW_MOST = 1.8;
 const ANIMATION_MS = 220;
 
 interface Dial {
@@ -57,6 +66,8 @@ interface Dial {
 }
 
 export interface DialSceneOptions {
+	/** Told the dials' on-screen diameter in CSS pixels whenever the view's scale changes. */
+	onscale?: (dialPx: number) => void;
 	/** The off-screen start-up drawing (see warmUp) waits for this; at once without it. */
 	warmUpAfter?: () => Promise<void>;
 	onselect?: (qubit: number) => void;
@@ -140,6 +151,8 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 	const faces = new Map<string, GraphicsContext>();
 	const headers: Text[] = [];
 	let layout: DialLayout | null = null;
+	let narrow = false;
+	let lastQubits: DialQubit[] = [];
 	let structureKey = '';
 	let selected: number | null = null;
 	let lodSmall = false;
@@ -286,7 +299,9 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 		for (const h of headers) h.destroy();
 		headers.length = 0;
 		const groups = groupByRegister(qubits);
-		layout = layoutDials(groups, Math.max(240, app.screen.width / world.scale.x));
+		lastQubits = qubits;
+		narrow = app.screen.width < NARROW;
+		layout = layoutDials(groups, narrow ? 16 + NARROW_PER_ROW * 132 : Math.max(240, app.screen.width / world.scale.x));
 		for (const h of layout.headers) {
 			const t = new Text({ text: h.register, style: HEADER_STYLE });
 			t.position.set(h.x, h.y);
@@ -357,9 +372,14 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 		return moved;
 	}
 
+	let toldScale = 0;
 	function cull() {
 		invalidate();
 		const s = world.scale.x;
+		if (s !== toldScale) {
+			toldScale = s;
+			opts.onscale?.(2 * RADIUS * s);
+		}
 		const small = RADIUS * s < 14;
 		const lodChanged = small !== lodSmall;
 		lodSmall = small;
@@ -411,7 +431,17 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 	let chosenView = false;
 	function fitAll() {
 		chosenView = false;
-		if (layout) showBox(0, 0, Math.max(usedWidth(), 1), layout.height + FIT_FOOT, START_MOST);
+		if (!layout) return;
+		if (narrow) {
+			// The dials fill the width, the first row at the top.
+			const w = app.screen.width;
+			const used = Math.max(usedWidth(), 1);
+			const s = Math.max(0.15, Math.min(NARROW_MOST, w / used));
+			zoomAt(s / world.scale.x, 0, 0);
+			world.x = (w - s * used) / 2;
+			world.y = 0;
+			cull();
+		} else showBox(0, 0, Math.max(usedWidth(), 1), layout.height + FIT_FOOT, START_MOST);
 	}
 	/** Room under the last row when fitting: its second label line and the zoom buttons over the corner. */
 	const FIT_FOOT = 44;
@@ -457,12 +487,18 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 	// side folded, the run summary growing), and a canvas left taller than its box covered it.
 	const resizing = new ResizeObserver(() => {
 		app.resize();
-		if (!chosenView) fitAll();
+		// A hidden board (the table view) has no size: keep its view for when it comes back.
+		if (app.screen.width === 0 || app.screen.height === 0) return;
+		// Crossing the phone width changes how many dials a row holds: lay the board out anew.
+		if (layout && (app.screen.width < NARROW) !== narrow) {
+			structureKey = '';
+			scene.update(lastQubits, selected, false);
+		} else if (!chosenView) fitAll();
 	});
 	resizing.observe(host);
 	app.renderer.on('resize', () => cull());
 
-	return {
+	const scene: DialScene = {
 		canvas: app.canvas,
 		update(qubits, sel, animate) {
 			const key = qubits.map((q) => `${q.qubit}:${q.register}:${q.index}`).join(',');
@@ -532,4 +568,5 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 			app.destroy(true, { children: true });
 		}
 	};
+	return scene;
 }
