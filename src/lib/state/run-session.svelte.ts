@@ -21,7 +21,6 @@ export class RunSession {
 	#timer: ReturnType<typeof setTimeout> | null = null;
 	#loadSeq = 0;
 	#busyFrame = false;
-	#begun: Promise<void> = Promise.resolve();
 
 	get step(): number {
 		return this.frame?.step ?? 0;
@@ -40,11 +39,9 @@ export class RunSession {
 		this.pause();
 		this.loading = true;
 		this.error = null;
-		let begin = () => {};
-		this.#begun = new Promise((resolve) => (begin = resolve));
 		try {
 			// Plain copies: postMessage cannot clone Svelte's reactive proxies.
-			const res = await this.#c().request({ type: 'load', doc: $state.snapshot(doc) as CircuitDocument, inputs: $state.snapshot(inputs) as RunRequestInputs }, begin);
+			const res = await this.#c().request({ type: 'load', doc: $state.snapshot(doc) as CircuitDocument, inputs: $state.snapshot(inputs) as RunRequestInputs });
 			if (seq !== this.#loadSeq) return;
 			if (res.type === 'error') {
 				this.error = { message: res.message, path: res.path };
@@ -61,14 +58,8 @@ export class RunSession {
 		} catch (e) {
 			if ((e as Error).message !== 'cancelled') this.error = { message: (e as Error).message };
 		} finally {
-			begin();
 			if (seq === this.#loadSeq) this.loading = false;
 		}
-	}
-
-	/** Resolves once the engine worker has the last requested load in hand (or it ended). */
-	begun(): Promise<void> {
-		return this.#begun;
 	}
 
 	/** Stop a long load (the worker is replaced). */

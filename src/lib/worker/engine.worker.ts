@@ -7,9 +7,6 @@ let session: EngineSession | null = null;
 
 self.onmessage = (e: MessageEvent<WorkerRequest>) => {
 	const id = e.data.id;
-	// A load says at once that it has begun (the page starts its own heavy start-up work only then:
-	// a busy page thread would hold this message back).
-	if (e.data.type === 'load') (self as unknown as Worker).postMessage({ id, type: 'progress', done: 0, total: 1 });
 	const out = handleRequest(session, e.data, (done, total) => (self as unknown as Worker).postMessage({ id, type: 'progress', done, total }));
 	session = out.session;
 	(self as unknown as Worker).postMessage(out.response);

@@ -3,7 +3,7 @@
 //
 // Angles are in turns; a dial's 0 is at twelve o'clock and angles grow clockwise, as a
 // reader expects of a dial (the direction is stated in the board's legend).
-import { Application, BitmapText, Circle, Container, Graphics, GraphicsContext, RenderTexture, Text, type FederatedPointerEvent } from 'pixi.js';
+import { Application, BitmapText, Circle, Container, Graphics, GraphicsContext, Text, type FederatedPointerEvent } from 'pixi.js';
 // The pages' content security policy has no 'unsafe-eval': this swaps pixi's generated shader
 // and uniform code (new Function) for prebuilt functions. Imported after pixi.js, before any Application.
 import 'pixi.js/unsafe-eval';
@@ -68,8 +68,6 @@ interface Dial {
 export interface DialSceneOptions {
 	/** Told the dials' on-screen diameter in CSS pixels whenever the view's scale changes. */
 	onscale?: (dialPx: number) => void;
-	/** The off-screen start-up drawing (see warmUp) waits for this; at once without it. */
-	warmUpAfter?: () => Promise<void>;
 	onselect?: (qubit: number) => void;
 	onhover?: (qubit: number | null, x: number, y: number) => void;
 }
@@ -94,29 +92,6 @@ const TITLE_STYLE = { fontFamily: 'JetBrains Mono Variable', fontSize: 13, fill:
 const SUB_STYLE = { fontFamily: 'JetBrains Mono Variable', fontSize: 12, fill: C.tick, align: 'center' } as const;
 const HEADER_STYLE = { fontFamily: 'JetBrains Mono Variable', fontSize: 14, fill: C.header, fontWeight: '600' } as const;
 
-/**
- * Draws one throwaway dial into an off-screen texture right after start-up, so the GPU programs
- * get compiled and the labels' glyph atlases get made while the engine worker is still running
- * the circuit, not inside the first frame that shows the dials (in software WebGL that frame
- * took 0.4 to 0.7 s, most of it compiling shaders). Nothing of it is ever shown.
- */
-function warmUp(app: Application) {
-	const probe = new Container();
-	const g = new Graphics();
-	g.circle(0, 0, RADIUS + 6).fill({ color: C.panel });
-	g.circle(0, 0, RADIUS).stroke({ width: 2, color: C.ring });
-	g.moveTo(0, 0).lineTo(0, -RADIUS).stroke({ width: 1, color: C.tick, alpha: 0.8 });
-	const face = new Container();
-	face.addChild(g, new BitmapText({ text: 'abcdefghijklmnopqrstuvwxyz[]0123456789', style: TITLE_STYLE }));
-	face.cacheAsTexture({ resolution: 2, antialias: true });
-	probe.addChild(face, new BitmapText({ text: 'is wants no expected angle m= bit 0123456789/.', style: SUB_STYLE }), new Text({ text: 'ab', style: HEADER_STYLE }));
-	const target = RenderTexture.create({ width: 64, height: 64 });
-	app.renderer.render({ container: probe, target });
-	face.cacheAsTexture(false);
-	probe.destroy({ children: true });
-	target.destroy(true);
-}
-
 export async function createDialScene(host: HTMLElement, opts: DialSceneOptions = {}): Promise<DialScene> {
 	const app = new Application();
 	await app.init({
@@ -134,7 +109,6 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 	app.ticker.stop();
 	host.appendChild(app.canvas);
 	app.canvas.setAttribute('aria-hidden', 'true');
-	let destroyed = false;
 
 	const world = new Container();
 	app.stage.addChild(world);
@@ -178,9 +152,6 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 	let lastFrame = performance.now();
 	let dirty = true;
 	let raf = 0;
-	void (opts.warmUpAfter?.() ?? Promise.resolve()).then(() => {
-		if (!destroyed && !layout) warmUp(app);
-	});
 	const frame = (now: number) => {
 		intervals.push(now - lastFrame);
 		lastFrame = now;
@@ -559,7 +530,6 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 			app.renderer.render(app.stage);
 		},
 		destroy() {
-			destroyed = true;
 			for (const f of faces.values()) f.destroy();
 			faces.clear();
 			resizing.disconnect();
