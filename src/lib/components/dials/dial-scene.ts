@@ -123,6 +123,8 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 	const dials = new Map<number, Dial>();
 	/** One face drawing per look (kind, level, bit, selected, small, diverged), shared by the dials. */
 	const faces = new Map<string, GraphicsContext>();
+	/** What a face shows until drawFace gives it its look (shared, so no dial owns a context). */
+	const blank = new GraphicsContext();
 	const headers: Text[] = [];
 	let layout: DialLayout | null = null;
 	let narrow = false;
@@ -287,7 +289,7 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 			root.eventMode = 'static';
 			root.cursor = 'pointer';
 			root.hitArea = new Circle(0, 0, RADIUS + 6);
-			const face = new Graphics();
+			const face = new Graphics(blank);
 			const arc = new Graphics();
 			const needle = new Graphics();
 			needle.moveTo(0, 0).lineTo(0, -(RADIUS - 5)).stroke({ width: 3, color: 0xffffff, cap: 'round' });
@@ -530,12 +532,13 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 			app.renderer.render(app.stage);
 		},
 		destroy() {
-			for (const f of faces.values()) f.destroy();
-			faces.clear();
 			resizing.disconnect();
 			cancelAnimationFrame(raf);
 			app.canvas.removeEventListener('wheel', onWheel);
 			app.destroy(true, { children: true });
+			for (const f of faces.values()) f.destroy();
+			faces.clear();
+			blank.destroy();
 		}
 	};
 	return scene;
