@@ -28,8 +28,11 @@ say "check worker started (log in ${ORRERY_DATA_DIR#$ROOT/}/worker.log)"
 
 node --import tsx scripts/print-demo.ts || true
 say "mail the app sends (sign-up, reset and invitation links) is written by the mail fake to $MAIL_DIR/*.eml"
-say "Orrery is running at $ORIGIN  (Ctrl-C stops the app; npm run stop stops the worker, database, Redis and mail fake)"
+say "Orrery is running at $ORIGIN  (Ctrl-C stops the app; npm run stop stops the app, the worker, database, Redis and mail fake)"
 # A built app is a production app: the development outbox is off (src/lib/server/config.ts).
 export NODE_ENV=production
-# Supervised: if the app dies it is started again (scripts/supervise.sh).
+# Supervised: if the app dies it is started again (scripts/supervise.sh). Its pid (this shell's,
+# kept by exec) lets `npm run stop` end it too when the app was started in the background.
+export ORRERY_APP_PIDFILE="$ORRERY_DATA_DIR/app.pid"
+echo $$ > "$ORRERY_APP_PIDFILE"
 exec bash scripts/supervise.sh node build

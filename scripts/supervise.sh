@@ -12,6 +12,8 @@ stop() {
 	[ -n "$child" ] && kill -TERM "$child" 2>/dev/null
 }
 trap stop INT TERM
+# Started by `npm start`, which wrote this pid: the file goes when the supervisor does.
+if [ -n "${ORRERY_APP_PIDFILE:-}" ]; then trap 'rm -f "$ORRERY_APP_PIDFILE"' EXIT; fi
 delay=1
 while :; do
 	started=$(date +%s)
