@@ -17,6 +17,18 @@ describe('engine session (what the workbench worker serves)', () => {
 		}
 	});
 
+	it('a failed reset claim: the frame right after it draws that dial as diverging and says why', () => {
+		const text = 'OPENQASM 3.0;\ninclude "stdgates.inc";\nqubit[1] a;\nqubit[1] c;\nqubit[1] b;\nqubit[1] anc;\nccx a[0], c[0], anc[0];\ncx anc[0], b[0];\nreset anc[0];\nccx a[0], c[0], anc[0];\n';
+		const doc = importQasm(text).document;
+		const bad = new EngineSession({ id: 1, type: 'load', doc, inputs: { values: { a: '1', c: '1' }, superposed: [] } });
+		const f = bad.frame(3);
+		expect(f.diverged).toEqual([3]);
+		expect(f.qubits[3]).toMatchObject({ divergence: 0.5, divergenceText: 'the reset claims |0⟩ here; it holds 1' });
+		expect(bad.frame(2).diverged).toEqual([]);
+		const good = new EngineSession({ id: 1, type: 'load', doc, inputs: { values: { a: '1', c: '0' }, superposed: [] } });
+		expect(good.frame(3).diverged).toEqual([]);
+	});
+
 	it('reads binary and decimal inputs and refuses values that do not fit', () => {
 		expect(parseInputValue('0b101', 'a', 3)).toBe(5n);
 		expect(parseInputValue('12', 'a', 4)).toBe(12n);

@@ -211,7 +211,16 @@ export class EngineSession {
 	frame(step: number): FrameView {
 		const s = Math.max(0, Math.min(step, this.run.lastStep));
 		const f = this.run.frameAt(s);
-		return toFrameView(f, this.position(s));
+		const view = toFrameView(f, this.position(s));
+		// A failed reset claim right here: its dial is drawn as diverging and says why.
+		for (const d of this.run.divergences) {
+			if (d.step > s) break;
+			if (d.step !== s || !d.reset) continue;
+			const i = view.qubits.findIndex((x) => x.qubit === d.qubit);
+			if (i >= 0) view.qubits[i] = { ...view.qubits[i], divergence: 0.5, divergenceText: d.reset.p1 > 1 - 1e-12 ? 'the reset claims |0⟩ here; it holds 1' : `the reset claims |0⟩ here; P(1) = ${Number(d.reset.p1.toPrecision(4))}` };
+			if (!view.diverged.includes(d.qubit)) view.diverged.push(d.qubit);
+		}
+		return view;
 	}
 
 	/** Gate rows [from, to) for an expanded block, at most MAX_GATE_ROWS. */

@@ -163,7 +163,7 @@ export function simulate(circuit: LoweredCircuit, inputs: RunInputs, options: Ru
 		const line = circuit.itemSources[circuit.itemOf[step]]?.line;
 		const holds = p1 > 1 - 1e-12 ? 'it holds 1' : `it would be found 1 with probability ${Number(p1.toPrecision(6))}`;
 		if (sim.divergences.length < 10_000)
-			sim.divergences.push({ step: step + 1, qubit: q, boundary: true, divergence: null, message: `q${q} (${qubitLabel(circuit.registers, q)}) at step ${step + 1}: the reset${line ? ` on line ${line}` : ''} claims it is |0⟩ there, but ${holds}` });
+			sim.divergences.push({ step: step + 1, qubit: q, boundary: true, divergence: null, message: `q${q} (${qubitLabel(circuit.registers, q)}) at step ${step + 1}: the reset${line ? ` on line ${line}` : ''} claims it is |0⟩ there, but ${holds}`, reset: { p1 } });
 	};
 
 	if (superposed.size > 0 || options.engine === 'amplitudes') {

@@ -96,4 +96,6 @@ export interface DivergenceRecord {
 	boundary: boolean;
 	divergence: SignedAngle | null;
 	message: string;
+	/** Set on a failed reset claim (the qubit was not |0⟩ at a reset), with the probability of 1 there. */
+	reset?: { p1: number };
 }
