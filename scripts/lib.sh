@@ -126,7 +126,7 @@ pid_stop() {
 		kill "$pid" 2>/dev/null
 		local i st
 		for i in $(seq 1 "$tenths"); do
-			st=$(ps -o stat= -p "$pid" 2>/dev/null)
+			st=$(ps -o stat= -p "$pid" 2>/dev/null || true) # gone: ps fails, and set -e must not end the caller
 			[ -z "$st" ] || [[ "$st" == Z* ]] && break
 			sleep 0.1
 		done
