@@ -213,7 +213,7 @@ export function sweepCircuit(c: LoweredCircuit, specs: Spec[], options: SweepOpt
 		const got = new Map<string, bigint>();
 		let engine: SweepCase['engine'] = 'ledger';
 		let phase: Angle | null = null;
-		let resetFailure: ResetFailure | null = null;
+		let resetFailure: ResetFailure | null;
 		if (g === c.gateCount) {
 			resetFailure = ls.resetFailure;
 			probability = 1;
