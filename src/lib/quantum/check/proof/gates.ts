@@ -8,7 +8,7 @@ import { dyadic } from '../../angle.js';
 import { GateCode, type PlacedRegister } from '../../circuit.js';
 import type { IntPoly } from '../spec.js';
 import { compareSection, requiredValue } from './compare.js';
-import { anfToPoly, anfXorProduct, Mismatch, Outside, polyTimes, productOf, signOfMask } from './poly.js';
+import { anfToPoly, anfXorProduct, Mismatch, Outside, polyTimes } from './poly.js';
 import { findSegment, laterHadamardOn, layoutName, probeSegment } from './sections.js';
 import { addGlobal, addPhase, anfOf, settleFlips, lineOf, qname, termName, valueOf, type FourierQubit, type PhaseTerm, type Prover } from './state.js';
 
@@ -24,7 +24,7 @@ export function enterSection(p: Prover, g: number, r: PlacedRegister): boolean {
 			const a = dyadic(coef, levels[j]);
 			if (a.exact && a.num !== 0n) phase.set(key, { angle: a, from: [] });
 		}
-		p.state[r.offset + j] = { kind: 'f', phase, mask: new Map(), level: levels[j], reg: r.name, flips: new Map(), lastFlip: -1 };
+		p.state[r.offset + j] = { kind: 'f', phase, mask: new Map(), level: levels[j], reg: r.name };
 	}
 	p.sections.push({ register: r.name, qftGates: [seg[0], seg[seg.length - 1]], iqftGates: [-1, -1], levels, layout: layoutName(levels), required: 'spec' });
 	return p.wrongTerms.length > 0;
@@ -69,25 +69,9 @@ export function flip(p: Prover, g: number, qs: number[], nc: number): void {
 	const ctl = qs.slice(0, nc).map((q) => anfOf(p, q, g, 'control'));
 	const t = p.state[qs[nc]];
 	if (t.kind === 'c') anfXorProduct(t.anf, ctl, g);
-	else if (t.kind === 'f') {
-		if (!p.goal.ignorePhase) addFlip(g, t, ctl);
-		anfXorProduct(t.mask, ctl, g);
-	} else throw new Outside(`gate ${g} flips ${qname(p, qs[nc])} after an inverse QFT; the prover does not expand computed sums bit by bit`, g);
-}
-
-/**
- * X^c on (|0⟩ + e^{iφ}|1⟩) adds c·φ to the global phase, φ = (1 − 2·mask)·(stored phase): the
- * factor k = c·(1 − 2·mask) joins the qubit's pending flips, settled by `settleFlips`.
- */
-function addFlip(g: number, t: FourierQubit, ctl: ReturnType<typeof anfOf>[]): void {
-	let k = productOf(ctl, g);
-	if (t.mask.size) k = polyTimes(k, signOfMask(t.mask, g), g);
-	for (const [key, v] of k) {
-		const x = (t.flips.get(key) ?? 0n) + v;
-		if (x === 0n) t.flips.delete(key);
-		else t.flips.set(key, x);
-	}
-	t.lastFlip = g;
+	// A Fourier qubit only records the flip: the whole-state phase it moves is paid by addPhase.
+	else if (t.kind === 'f') anfXorProduct(t.mask, ctl, g);
+	else throw new Outside(`gate ${g} flips ${qname(p, qs[nc])} after an inverse QFT; the prover does not expand computed sums bit by bit`, g);
 }
 
 /** P, RZ, CP, MCP at gate g (kind k) on qubits qs: at most one may be a Fourier qubit (else entangling). */

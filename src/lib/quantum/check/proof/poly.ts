@@ -80,11 +80,15 @@ export function productOf(factors: Anf[], gate: number): IntPoly {
 	return poly;
 }
 
-/** 1 − 2·mask as a polynomial: the sign a phase takes on a qubit flipped by X^mask. */
-export function signOfMask(mask: Anf, gate: number): IntPoly {
-	const oneMinus: IntPoly = new Map([['', 1n]]);
-	for (const [k, v] of anfToPoly(mask, gate)) oneMinus.set(k, (oneMinus.get(k) ?? 0n) - 2n * v);
-	return oneMinus;
+/** 1 − 2·m for the polynomial m of a mask: the sign a phase takes on a qubit flipped by X^mask. */
+export function oneMinusTwice(m: IntPoly): IntPoly {
+	const out: IntPoly = new Map([['', 1n]]);
+	for (const [k, v] of m) {
+		const x = (out.get(k) ?? 0n) - 2n * v;
+		if (x === 0n) out.delete(k);
+		else out.set(k, x);
+	}
+	return out;
 }
 
 /** target ⊕= ∏ factors over GF(2) (a multi-controlled X on a classical qubit); new monomials remember `gate`. */

@@ -8,7 +8,7 @@ import { addAngles, dyadic, formatTurns, isZeroSigned, negateAngle, reduceSigned
 import { gateProvenance, qubitLabel, type LoweredCircuit, type PlacedRegister } from '../../circuit.js';
 import { mulKeys, type IntPoly } from '../spec.js';
 import type { ProofGoal, RegisterMismatch, SectionInfo, WrongTerm } from '../proof.js';
-import { anfToPoly, MAX_POLY_TERMS, Outside, polyTimes, productOf, signOfMask, type Anf } from './poly.js';
+import { anfToPoly, MAX_POLY_TERMS, oneMinusTwice, Outside, polyTimes, productOf, type Anf } from './poly.js';
 
 /** One contribution to a phase term: gate index and the amount it added (turns). */
 export type Contribution = [number, Angle];
@@ -20,11 +20,10 @@ export interface PhaseTerm {
 /** A qubit: classical (`c`, its ANF), Fourier (`f`, phase polynomial, X mask, level, register) or a bit of a verified section value (`v`). */
 export type QState = { kind: 'c'; anf: Anf } | FourierQubit | { kind: 'v'; reg: string; bit: number };
 /**
- * A Fourier qubit. `flips` (W) is Σ kᵢ over the X gates on it so far, kᵢ = (product of the
- * controls)·(1 − 2·mask then): a flip adds kᵢ·φ to the global phase, and adding those at each flip
- * costs the whole polynomial every time. They are settled at once instead (see {@link settleFlips}).
+ * A Fourier qubit: its stored phase polynomial, the X mask it carries (the qubit's actual phase
+ * is (1 − 2·mask)·phase), its level and register.
  */
-export type FourierQubit = { kind: 'f'; phase: Map<string, PhaseTerm>; mask: Anf; level: number; reg: string; flips: IntPoly; lastFlip: number };
+export type FourierQubit = { kind: 'f'; phase: Map<string, PhaseTerm>; mask: Anf; level: number; reg: string };
 
 /** The prover's state over one circuit. */
 export interface Prover {
@@ -75,15 +74,26 @@ export function addGlobal(p: Prover, poly: IntPoly, theta: Angle, g: number, sca
 }
 
 /**
- * Add θ·∏factors·(1 − 2·mask) to a Fourier qubit's phase polynomial. With flips pending (W ≠ 0)
- * the global phase gets −W·(this increment) now; {@link settleFlips} adds W·(whole phase) later.
+ * Add θ·∏factors·(1 − 2·mask) to a Fourier qubit's phase polynomial, and the whole-state phase
+ * its flips owe for it.
+ *
+ * An X^c on (|0⟩ + e^{iφ}|1⟩) puts c·φ on the whole state. Flip i adds cᵢ·φᵢ = kᵢ·Sᵢ, with
+ * kᵢ = cᵢ·(1 − 2·mᵢ) and Sᵢ the stored phase then (the sum of the increments sⱼ made before it).
+ * Summed over the flips that is Σⱼ sⱼ·(W − Wⱼ), where W = Σ kᵢ and Wⱼ is that sum when sⱼ was
+ * made. For bits kᵢ = mᵢ₊₁ − mᵢ, so W telescopes to the mask's own polynomial: nothing to keep.
+ * Each increment pays −sⱼ·mask now, and {@link settleFlips} pays mask·S at the inverse QFT (0
+ * unless the qubit is still flipped there, which the inverse QFT refutes anyway). So a flip costs
+ * nothing, not the whole phase polynomial (the quarter-angle lowering flips product qubits often).
  */
 export function addPhase(p: Prover, f: FourierQubit, theta: Angle, factors: Anf[], g: number): void {
 	let poly = productOf(factors, g);
-	if (f.mask.size) poly = polyTimes(poly, signOfMask(f.mask, g), g);
-	if (f.flips.size && !p.goal.ignorePhase) {
-		if (!theta.exact) throw new Outside(`gate ${g} adds an inexact phase to a flipped Fourier qubit`, g);
-		addGlobal(p, polyTimes(poly, f.flips, g), theta, g, -1n);
+	if (f.mask.size) {
+		const m = anfToPoly(f.mask, g);
+		poly = polyTimes(poly, oneMinusTwice(m), g);
+		if (!p.goal.ignorePhase) {
+			if (!theta.exact) throw new Outside(`gate ${g} adds an inexact phase to a flipped Fourier qubit`, g);
+			addGlobal(p, polyTimes(poly, m, g), theta, g, -1n);
+		}
 	}
 	for (const [k, v] of poly) {
 		const a = scaleAngle(theta, v);
@@ -96,32 +106,22 @@ export function addPhase(p: Prover, f: FourierQubit, theta: Angle, factors: Anf[
 	if (f.phase.size > MAX_POLY_TERMS) throw new Outside('a phase polynomial grew beyond 4 million terms', g);
 }
 
-/**
- * Settle the global phase of a Fourier qubit's flips. Flip i adds kᵢ·Sᵢ (Sᵢ = the stored phase
- * then, the sum of the increments sⱼ made before it), so all flips add Σⱼ sⱼ·(W − Wⱼ), W the sum
- * of every kᵢ and Wⱼ the sum when sⱼ was made. {@link addPhase} added −sⱼ·Wⱼ as it went; this adds
- * W·S and clears W. Exact. W telescopes: cᵢ·(1 − 2·mᵢ) = mᵢ₊₁ − mᵢ for bits, so W is the current
- * mask's own polynomial: 0 whenever the qubit is unflipped (the inverse QFT refutes a flipped one
- * anyway). The work is the size of W per phase increment, not the whole phase at every flip.
- */
+/** At the inverse QFT: the whole-state phase a still-flipped qubit owes, mask·S (see {@link addPhase}). */
 export function settleFlips(p: Prover, f: FourierQubit, g: number): void {
-	if (!f.flips.size || p.goal.ignorePhase) {
-		f.flips = new Map();
-		return;
-	}
+	if (!f.mask.size || p.goal.ignorePhase) return;
+	const m = anfToPoly(f.mask, g);
+	const last = Math.max(g, ...[...f.mask.values()].flat());
 	for (const [key, term] of f.phase) {
-		if (!term.angle.exact) throw new Outside(`gate ${f.lastFlip} flips ${f.reg}'s Fourier qubit whose phase is inexact`, f.lastFlip);
+		if (!term.angle.exact) throw new Outside(`${f.reg}'s Fourier qubit is still flipped at the inverse QFT (gate ${g}) and its phase is inexact`, g);
 		const shifted: IntPoly = new Map();
-		for (const [kk, v] of f.flips) {
-			const m = mulKeys(kk, key);
-			const x = (shifted.get(m) ?? 0n) + v;
-			if (x === 0n) shifted.delete(m);
-			else shifted.set(m, x);
+		for (const [kk, v] of m) {
+			const k = mulKeys(kk, key);
+			const x = (shifted.get(k) ?? 0n) + v;
+			if (x === 0n) shifted.delete(k);
+			else shifted.set(k, x);
 		}
-		addGlobal(p, shifted, term.angle, f.lastFlip);
+		addGlobal(p, shifted, term.angle, last);
 	}
-	f.flips = new Map();
-	void g;
 }
 
 /** Register value as an integer polynomial, from classical bits or a verified section value. */
