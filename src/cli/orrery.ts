@@ -15,7 +15,8 @@ import { lowerCircuit } from '../lib/quantum/lower.js';
 import { serializeCircuitDocument } from '../lib/quantum/schema.js';
 import type { CircuitDocument, LoweredCircuit } from '../lib/quantum/circuit.js';
 import { checkCircuit, countResources, SpecError, type CheckReport } from '../lib/quantum/check/index.js';
-import { resetFailureText, type InputChoice } from '../lib/quantum/check/sweep.js';
+import type { InputChoice } from '../lib/quantum/check/sweep.js';
+import { resetFailureText } from '../lib/quantum/reset-claim.js';
 import { runBasisInput, type RunReport } from '../lib/quantum/check/run-input.js';
 
 /** Output sinks, so tests can call {@link main} without a process. */

@@ -14,6 +14,7 @@ import { findFourierSections, type FourierSection } from '$lib/quantum/intent';
 import type { RegisterIntent } from '$lib/quantum/intent';
 import { ExpectKind, type ExpectationEvents } from '$lib/quantum/expect';
 import type { DialQubit } from '$lib/dials/dial-model';
+import { resetHolds } from '$lib/quantum/reset-claim';
 import type { BreakpointSpec, FailureDivergence, FrameView, GateRow, LedgerView, PositionView, RunSummary, SeekKind, WorkerRequest, WorkerResponse } from './protocol';
 
 /** Most ledger rows sent for one qubit; the view says when it was cut. */
@@ -149,6 +150,8 @@ export class EngineSession {
 	readonly circuit: LoweredCircuit;
 	readonly run: Run;
 	readonly summary: RunSummary;
+	/** Failed reset claims by the step they show at (few; a frame looks its step up). */
+	readonly #resets = new Map<number, { qubit: number; p1: number }[]>();
 	private labels: string[];
 
 	constructor(req: Extract<WorkerRequest, { type: 'load' }>) {
@@ -166,6 +169,7 @@ export class EngineSession {
 		this.run = new Run(c, { values, superposed: req.inputs.superposed }, { keyframeInterval: req.keyframeInterval, intents, intentSections });
 		this.labels = [];
 		for (const r of c.registers) for (let i = 0; i < r.size; i++) this.labels[r.offset + i] = `${r.name}[${i}]`;
+		for (const d of this.run.divergences) if (d.reset) this.#resets.set(d.step, [...(this.#resets.get(d.step) ?? []), { qubit: d.qubit, p1: d.reset.p1 }]);
 		const first = this.run.divergences[0];
 		this.summary = {
 			title: c.title,
@@ -213,11 +217,9 @@ export class EngineSession {
 		const f = this.run.frameAt(s);
 		const view = toFrameView(f, this.position(s));
 		// A failed reset claim right here: its dial is drawn as diverging and says why.
-		for (const d of this.run.divergences) {
-			if (d.step > s) break;
-			if (d.step !== s || !d.reset) continue;
+		for (const d of this.#resets.get(s) ?? []) {
 			const i = view.qubits.findIndex((x) => x.qubit === d.qubit);
-			if (i >= 0) view.qubits[i] = { ...view.qubits[i], divergence: 0.5, divergenceText: d.reset.p1 > 1 - 1e-12 ? 'the reset claims |0⟩ here; it holds 1' : `the reset claims |0⟩ here; P(1) = ${Number(d.reset.p1.toPrecision(4))}` };
+			if (i >= 0) view.qubits[i] = { ...view.qubits[i], divergence: 0.5, divergenceText: `the reset claims |0⟩ here; ${resetHolds(d.p1)}` };
 			if (!view.diverged.includes(d.qubit)) view.diverged.push(d.qubit);
 		}
 		return view;

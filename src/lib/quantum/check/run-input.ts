@@ -6,7 +6,7 @@
 import { applyLedgerGate, buildLedgerTables, createLedgerState, entanglingReason, LedgerKind, ledgerPhase, ledgerToAmplitudes } from '../ledger.js';
 import { applyLoweredGates, blochVector, buildGateTables, registerDistribution, AMPLITUDE_QUBIT_LIMITS } from '../amplitudes.js';
 import { formatTurns } from '../angle.js';
-import type { ResetFailure } from '../amplitudes.js';
+import { resetFailureView, type ResetFailureView } from '../reset-claim.js';
 import { qubitLabel, type LoweredCircuit } from '../circuit.js';
 
 /** Frame of one qubit at the step read. */
@@ -34,7 +34,7 @@ export interface RunReport {
 	registers: { name: string; values: { value: string; probability: number }[] }[];
 	frames: QubitReadout[];
 	/** The first reset (up to the step read) whose claim "this qubit is |0⟩ here" failed. */
-	resetFailure?: { gate: number; line: number | null; qubit: string; p1: number };
+	resetFailure?: ResetFailureView;
 }
 
 /** Run `values` (register → starting value, others 0) up to `step` gates. */
@@ -73,7 +73,7 @@ export function runBasisInput(c: LoweredCircuit, values: Map<string, bigint>, op
 		}
 		const registers = c.registers.map((r) => ({ name: r.name, values: productDistribution(p1.subarray(r.offset, r.offset + r.size)) }));
 		const near = ls.nearCollapses ? { nearClassical: { count: ls.nearCollapses, droppedProbability: ls.dropped } } : {};
-		return { engine: 'ledger', step, gateCount: c.gateCount, handedOverAt: null, ...near, registers, frames, ...resetOf(c, ls.resetFailure) };
+		return { engine: 'ledger', step, gateCount: c.gateCount, handedOverAt: null, ...near, registers, frames, ...(ls.resetFailure ? { resetFailure: resetFailureView(c, ls.resetFailure) } : {}) };
 	}
 	const sv = ledgerToAmplitudes(ls, lt, maxQ);
 	applyLoweredGates(sv, c, buildGateTables(c), g, step);
@@ -102,12 +102,7 @@ export function runBasisInput(c: LoweredCircuit, values: Map<string, bigint>, op
 		return { name: r.name, values: vals.slice(0, 16) };
 	});
 	const why = opts.engine === 'ledger' ? { handoverReason: entanglingReason(ls, c, g) } : {};
-	return { engine: 'amplitudes', step, gateCount: c.gateCount, handedOverAt: opts.engine === 'ledger' ? g : null, ...why, registers, frames, ...resetOf(c, sv.resetFailure ?? null) };
-}
-
-function resetOf(c: LoweredCircuit, f: ResetFailure | null): Pick<RunReport, 'resetFailure'> {
-	if (!f) return {};
-	return { resetFailure: { gate: f.gate, line: c.itemSources[c.itemOf[f.gate]]?.line ?? null, qubit: qubitLabel(c.registers, f.qubit), p1: f.p1 } };
+	return { engine: 'amplitudes', step, gateCount: c.gateCount, handedOverAt: opts.engine === 'ledger' ? g : null, ...why, registers, frames, ...(sv.resetFailure ? { resetFailure: resetFailureView(c, sv.resetFailure) } : {}) };
 }
 
 /** Most likely values of independent bits (up to 16 values, probabilities as products). */

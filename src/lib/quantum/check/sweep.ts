@@ -10,7 +10,8 @@
 import { applyLedgerGate, buildLedgerTables, createLedgerState, LedgerKind, ledgerGlobalPhase, ledgerToAmplitudes } from '../ledger.js';
 import { addAngles, anglesEqual, floatTurns, formatTurns, reduceSigned, type Angle } from '../angle.js';
 import { applyLoweredGates, buildGateTables, AMPLITUDE_QUBIT_LIMITS, type ResetFailure } from '../amplitudes.js';
-import { qubitLabel, type LoweredCircuit, type PlacedRegister } from '../circuit.js';
+import type { LoweredCircuit, PlacedRegister } from '../circuit.js';
+import { resetFailureView, type ResetFailureView } from '../reset-claim.js';
 import { evaluateSpec, satisfiesConditions, type Condition, type Spec } from './spec.js';
 
 /**
@@ -41,7 +42,7 @@ export interface SweepCase {
 	 */
 	reason?: 'value' | 'phase' | 'reset';
 	/** On a reset failure: the gate, its source line, the qubit and the probability of finding it 1 there. */
-	reset?: { gate: number; line: number | null; qubit: string; p1: number };
+	reset?: ResetFailureView;
 }
 
 /** Result of {@link sweepCircuit}. */
@@ -272,23 +273,12 @@ export function sweepCircuit(c: LoweredCircuit, specs: Spec[], options: SweepOpt
 		if (reason) {
 			result.failed++;
 			if (result.failures.length < keep)
-				result.failures.push({ input: show(values, inputNames), expected: show(expected, null), got: show(got, null), probability, engine, reason, ...(reason === 'phase' && phase ? { phase: formatTurns(reduceSigned(phase)) } : {}), ...(resetFailure ? { reset: resetOf(c, resetFailure) } : {}) });
+				result.failures.push({ input: show(values, inputNames), expected: show(expected, null), got: show(got, null), probability, engine, reason, ...(reason === 'phase' && phase ? { phase: formatTurns(reduceSigned(phase)) } : {}), ...(resetFailure ? { reset: resetFailureView(c, resetFailure) } : {}) });
 		}
 		if (options.onProgress && (i & 255) === 255) options.onProgress(i + 1, total);
 	}
 	options.onProgress?.(total, total);
 	return result;
-}
-
-/** A failed reset claim in words: where, which qubit, and how likely it is found 1 there. */
-export function resetFailureText(r: NonNullable<SweepCase['reset']>): string {
-	const p = r.p1 > 1 - 1e-12 ? 'it holds 1' : `it would be found 1 with probability ${Number(r.p1.toPrecision(6))}`;
-	return `the reset on ${r.qubit} at step ${r.gate + 1}${r.line !== null ? ` (line ${r.line})` : ''} claims it is |0⟩ there, but ${p}`;
-}
-
-function resetOf(c: LoweredCircuit, f: ResetFailure): NonNullable<SweepCase['reset']> {
-	const src = c.itemSources[c.itemOf[f.gate]];
-	return { gate: f.gate, line: src?.line ?? null, qubit: qubitLabel(c.registers, f.qubit), p1: f.p1 };
 }
 
 function fillBits(regs: PlacedRegister[], values: Map<string, bigint>, out: Uint8Array): void {

@@ -7,6 +7,7 @@
  */
 import { allBlochVectors, AMPLITUDE_QUBIT_LIMITS, applyLoweredGate, buildGateTables, cloneState, probabilityOne, RESET_TOLERANCE, type GateTables, type StateVector } from '../amplitudes.js';
 import { GateCode, qubitLabel, type LoweredCircuit } from '../circuit.js';
+import { resetHolds } from '../reset-claim.js';
 import { ExpectKind } from '../expect.js';
 import {
 	applyLedgerGate,
@@ -161,9 +162,8 @@ export function simulate(circuit: LoweredCircuit, inputs: RunInputs, options: Ru
 		if (p1 <= RESET_TOLERANCE) return;
 		if (sim.firstParted[q] < 0) sim.firstParted[q] = step + 1;
 		const line = circuit.itemSources[circuit.itemOf[step]]?.line;
-		const holds = p1 > 1 - 1e-12 ? 'it holds 1' : `it would be found 1 with probability ${Number(p1.toPrecision(6))}`;
 		if (sim.divergences.length < 10_000)
-			sim.divergences.push({ step: step + 1, qubit: q, boundary: true, divergence: null, message: `q${q} (${qubitLabel(circuit.registers, q)}) at step ${step + 1}: the reset${line ? ` on line ${line}` : ''} claims it is |0⟩ there, but ${holds}`, reset: { p1 } });
+			sim.divergences.push({ step: step + 1, qubit: q, boundary: true, divergence: null, message: `q${q} (${qubitLabel(circuit.registers, q)}) at step ${step + 1}: the reset${line ? ` on line ${line}` : ''} claims it is |0⟩ there, but ${resetHolds(p1)}`, reset: { p1 } });
 	};
 
 	if (superposed.size > 0 || options.engine === 'amplitudes') {
