@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { CIRCUIT_FORMAT, CIRCUIT_VERSION, type BodyItem, type CircuitDocument, type GateItem } from '../circuit.js';
 import { recogniseDecompositions, type PeepholeOptions } from './peephole.js';
-import { recogniseDecompositionsReference } from './peephole-reference.js';
+import { recogniseDecompositionsReference } from '../testing/peephole-reference.js';
 import { importQasm } from './import.js';
 import { exporterStyleQasm } from '../bench/import-bench.js';
 import { mulberry32 } from '../testing/rng.js';

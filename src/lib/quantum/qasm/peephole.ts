@@ -26,7 +26,7 @@
  * Speed (a large file is hundreds of thousands of gates): the gates live in parallel arrays (kind,
  * qubits, angle; rewritten gates are appended), each pass is a list of indices into them, a region
  * is first only checked (CNOT parities) and rewritten once it is known to close, and a gate is
- * tried for cancellation only when a rewritten gate lies within its window. `peephole-reference.ts`
+ * tried for cancellation only when a rewritten gate lies within its window. `testing/peephole-reference.ts`
  * is the plain version the tests compare this one against.
  */
 import { addAngles, dyadic, parseAngle, scaleAngle, type Angle } from '../angle.js';

@@ -6,7 +6,7 @@
  */
 import { addAngles, scaleAngle, type Angle } from '../angle.js';
 import type { BodyItem, CircuitDocument, GateItem, QubitRef } from '../circuit.js';
-import { angleString, EIGHTH, expandProduct, isZero, MINUS_EIGHTH, readAngle, sameSet, TOFFOLI, xorSorted, type PeepholeOptions, type PeepholeReport, type PeepholeResult, type ToffoliStep } from './peephole.js';
+import { angleString, EIGHTH, expandProduct, isZero, MINUS_EIGHTH, readAngle, sameSet, TOFFOLI, xorSorted, type PeepholeOptions, type PeepholeReport, type PeepholeResult, type ToffoliStep } from '../qasm/peephole.js';
 
 type Kind = 'diag' | 'cx' | 'h' | 'other' | 'barrier';
 interface G {
