@@ -6,6 +6,7 @@
  * modular multiplier (Fig. 6); Draper 2000 (quant-ph/0008033) Fourier adder.
  */
 import { afterAll, describe, expect, it } from 'vitest';
+import * as math from 'mathjs';
 import { lowerCircuit } from '../lower.js';
 import { importQasm } from '../qasm/import.js';
 import type { CircuitDocument } from '../circuit.js';
@@ -112,7 +113,8 @@ describe('Beauregard controlled modular multiplier (Fig. 6), n = 5, N = 21, a = 
 });
 
 describe('a phase moved onto the whole state by flips of a Fourier qubit', () => {
-	// X·p(θ)·X = e^{iθ}·p(−θ) (a textbook identity: X swaps |0⟩ and |1⟩). Under a control c the
+	// X·p(θ)·X = e^{iθ}·p(−θ) (a textbook identity, from memory: X swaps |0⟩ and |1⟩; checked
+	// against mathjs below). Under a control c the
 	// qubit's own phase is θ·(1 − 2c), and e^{iθ·c} lands on the whole state. Adding cp(2θ) c,t and
 	// p(−θ) t puts the qubit's phase back to 0, so only the whole-state phase θ·c is left: a phase
 	// that depends on the input, which the check must refute (and the sweep, comparing the phase of
@@ -145,6 +147,19 @@ describe('a phase moved onto the whole state by flips of a Fourier qubit', () =>
 			specs: ['b = (b + 8*a + 8*c) mod 8']
 		};
 	};
+	it('the identity itself, as 2×2 matrices in mathjs, for θ = 1/2, 1/4 and 1/8 turn', () => {
+		for (const t of [1 / 2, 1 / 4, 1 / 8]) {
+			const th = 2 * Math.PI * t;
+			const X = math.matrix([[0, 1], [1, 0]]);
+			const P = (a: number) => math.matrix([[math.complex(1, 0), math.complex(0, 0)], [math.complex(0, 0), math.exp(math.complex(0, a))]]);
+			const left = math.multiply(math.multiply(X, P(th)), X) as math.Matrix;
+			const right = math.multiply(math.exp(math.complex(0, th)), P(-th)) as math.Matrix;
+			const diff = math.subtract(left, right) as math.Matrix;
+			let worst = 0;
+			diff.forEach((x) => (worst = Math.max(worst, math.abs(x as math.Complex) as unknown as number)));
+			expect(worst).toBeLessThan(1e-12);
+		}
+	});
 	for (const ctl of [[q('c', 0)], [q('a', 0), q('c', 0)]])
 		for (const turns of ['1/2', '1/4', '1/8'])
 			for (const premask of [false, true])
