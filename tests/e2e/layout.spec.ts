@@ -88,9 +88,7 @@ test('the dial board fills at least half of a 1440×900 screen and stays in view
 	test.setTimeout(90_000);
 	await signInInBrowser(page, demo.engineer.email, demo.engineer.password);
 	await page.setViewportSize({ width: 1440, height: 900 });
-	await page.goto(`/teams/${SLUG}/circuits`);
-	await page.getByRole('link', { name: /fault planted/ }).first().click();
-	await settle(page, 'workbench');
+	await openPlantedFault(page);
 	const visibleArea = async () =>
 		page.getByTestId('dial-board').evaluate((el) => {
 			const r = el.getBoundingClientRect();
@@ -105,11 +103,16 @@ test('the dial board fills at least half of a 1440×900 screen and stays in view
 	await page.screenshot({ path: 'tests/artifacts/workbench-board-1440.png' });
 });
 
-/** The planted-fault demo at its divergence (c = 1, a = 2), the diverging dial selected. */
-async function atDivergence(page: Page) {
+/** The planted-fault demo (the seeds' hand-written controlled adder) open in the workbench, its run shown. */
+async function openPlantedFault(page: Page) {
 	await page.goto(`/teams/${SLUG}/circuits`);
 	await page.getByRole('link', { name: /fault planted/ }).first().click();
 	await settle(page, 'workbench');
+}
+
+/** The planted-fault demo at its divergence (c = 1, a = 2), the diverging dial selected. */
+async function atDivergence(page: Page) {
+	await openPlantedFault(page);
 	for (const [r, v] of [['c', '1'], ['a', '2']]) {
 		await page.locator(`#in-${r}`).fill(v);
 		await page.locator(`#in-${r}`).press('Tab');
@@ -141,9 +144,7 @@ test('on a phone the workbench is a readable read-only view that says editing ne
 	test.setTimeout(90_000);
 	await signInInBrowser(page, demo.engineer.email, demo.engineer.password);
 	await page.setViewportSize({ width: 390, height: 844 });
-	await page.goto(`/teams/${SLUG}/circuits`);
-	await page.getByRole('link', { name: /fault planted/ }).first().click();
-	await settle(page, 'workbench');
+	await openPlantedFault(page);
 	await expect(page.getByText(/Editing needs a wider screen/)).toBeVisible();
 	await expect(page.getByTestId('dial-board')).toBeVisible();
 	await page.getByTestId('step-forward').click();
