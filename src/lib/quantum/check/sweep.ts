@@ -7,7 +7,7 @@
  * Qubit order: register value Σ bit_i·2^i, flat qubit = offset + index. Probabilities are floats
  * (exactly 0 or 1 when every qubit ends classical in the ledger).
  */
-import { applyLedgerGate, buildLedgerTables, createLedgerState, LedgerKind, ledgerGlobalPhase, ledgerToAmplitudes } from '../ledger.js';
+import { applyLedgerGate, buildLedgerTables, createLedgerState, LedgerKind, ledgerGlobalPhase, ledgerProbabilityOne, ledgerToAmplitudes } from '../ledger.js';
 import { addAngles, anglesEqual, floatTurns, formatTurns, reduceSigned, type Angle } from '../angle.js';
 import { applyLoweredGates, buildGateTables, AMPLITUDE_QUBIT_LIMITS, type ResetFailure } from '../amplitudes.js';
 import type { LoweredCircuit, PlacedRegister } from '../circuit.js';
@@ -220,7 +220,7 @@ export function sweepCircuit(c: LoweredCircuit, specs: Spec[], options: SweepOpt
 			probability = 1;
 			phase = ledgerGlobalPhase(ls, lt);
 			for (let q = 0; q < c.qubitCount; q++) {
-				const p1 = ls.kind[q] === LedgerKind.classical ? ls.bit[q] : ls.kind[q] === LedgerKind.fourier ? 0.5 : ls.amp[4 * q + 2] ** 2 + ls.amp[4 * q + 3] ** 2;
+				const p1 = ledgerProbabilityOne(ls, q);
 				probability *= expBits[q] ? p1 : 1 - p1;
 				bitsArr[q] = p1 > 0.5 ? 1 : 0;
 				if (ls.kind[q] === LedgerKind.pure) {

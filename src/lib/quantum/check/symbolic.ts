@@ -427,14 +427,15 @@ export function symbolicProve(c: LoweredCircuit, goal: SymbolicGoal): SymbolicRe
 					const bad = kind[q] === 1 ? dom : bdd.and(bit[q], dom);
 					if (bad !== FALSE && result.mismatches.length < 50) {
 						const a = bdd.anySat(bad)!;
+						const gates = [...writers[q], g];
 						result.mismatches.push({
 							register: regOf[q].name,
 							qubit: qname(q),
 							holds: kind[q] === 1 ? 'a superposition (|0⟩ + e^{iφ}|1⟩)/√2, found 1 with probability ½' : describe(bdd, onDomain(bit[q]), levelName),
 							expected: where,
 							input: values(a),
-							gates: [...writers[q], g],
-							lines: linesOf([...writers[q], g]),
+							gates,
+							lines: linesOf(gates),
 							atStep: g + 1
 						});
 						if (result.counterexamples.length < 3) result.counterexamples.push(values(a));
