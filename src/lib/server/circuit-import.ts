@@ -18,8 +18,9 @@ export function importCircuitText(name: string, text: string): ImportResult {
 		const stored = JSON.stringify(r.document).length;
 		if (stored > MAX_STORED_DOCUMENT)
 			return { ok: false, errors: [`${name}: the circuit would take ${(stored / 2 ** 20).toFixed(1)} MiB stored; the limit is ${MAX_STORED_DOCUMENT / 2 ** 20} MiB. Split it, or use gate definitions and broadcasts.`] };
-		// Notes say how printed decimals and decomposed gates were read, so the user can see it.
-		return { ok: true, document: r.document, warnings: [...r.warnings.map((w) => `${name}:${w.line}:${w.column}: ${w.message}`), ...r.notes.map((n) => `${name}: ${n}`)] };
+		// Notes say how printed decimals and decomposed gates were read, so the user can see it. The
+		// document is spread into plain data (the importer's makes its body when first read).
+		return { ok: true, document: { ...r.document }, warnings: [...r.warnings.map((w) => `${name}:${w.line}:${w.column}: ${w.message}`), ...r.notes.map((n) => `${name}: ${n}`)] };
 	} catch (e) {
 		// QasmError messages already read "file:line:column: what is wrong, what was expected".
 		return { ok: false, errors: [(e as Error).message] };

@@ -7,7 +7,7 @@
  * Qubit order: flat qubits (declaration order) are named through `flatToRef` (`reg[i]`, bit i).
  * Angles: ops carry radians (`Num`); items carry turns (`"k/2^m turn"` or `"~t"`).
  */
-import type { CallItem, GateItem, Matrix2, QubitRef, SourcePosition, UserBlock, BodyItem } from '../circuit.js';
+import type { BodyItem, CallItem, CircuitDocument, GateItem, Matrix2, QubitRef, UserBlock } from '../circuit.js';
 import type { Angle } from '../angle.js';
 import { numToAngle, type Num } from './expr.js';
 import { matDagger, matMul, matSqrt, MATRICES, rzMatrix, ryMatrix, zyz } from './matrix.js';
@@ -30,16 +30,65 @@ export interface EmitHost {
 	nameTaken(name: string): boolean;
 }
 
-/** Collects the document's body items and, per item, its origin. */
+/**
+ * A document whose `body` is made on first read (then kept; assigning replaces it). The keys
+ * come in the document's usual order, so JSON and spreads read the same as a plain document.
+ */
+export function documentWithBody(head: Omit<CircuitDocument, 'body' | 'blocks'>, blocks: UserBlock[] | undefined, make: () => BodyItem[]): CircuitDocument {
+	let body: BodyItem[] | undefined;
+	const doc = { ...head } as CircuitDocument;
+	Object.defineProperty(doc, 'body', {
+		enumerable: true,
+		configurable: true,
+		get: () => (body ??= make()),
+		set: (v: BodyItem[]) => {
+			body = v;
+		}
+	});
+	if (blocks !== undefined) doc.blocks = blocks;
+	return doc;
+}
+
+/** Ints kept per fast-path gate: gate code, qubit list, angle (−1 none), line, column, id number. */
+const STRIDE = 6;
+
+/**
+ * Collects the document's body entries and, per entry, its origin.
+ *
+ * A gate from the reader's fast path (most of a large file) is kept as six ints (gate, qubit
+ * list, angle, line, column, id number) and its item is made only when the body is read: making
+ * one object per gate and keeping it alive was most of a large import's time (allocation and the
+ * collector), and readers such as the upload form's register preview and the decomposition
+ * search need no items. Every other gate or call is an item from the start. {@link itemAt} and
+ * {@link items} make the same item the fast path made before (same keys in the same order), once.
+ */
 export class GateEmitter {
-	readonly items: BodyItem[] = [];
-	/**
-	 * Per item its origin; for a gate the reader's fast path made, only the OpenQASM name (the
-	 * origin is that name, the item's `source` as the call, and no definitions; made when read).
-	 */
-	private readonly originOf: (GateOrigin | string)[] = [];
+	/** Entries so far. */
+	private count = 0;
+	/** Per entry: −1 for a fast-path gate (in `cols`), else its index in `objects`. */
+	private objOf = new Int32Array(1024);
+	private cols = new Int32Array(1024 * STRIDE);
+	/** Items made from the start (and their origins), in order. */
+	private readonly objects: BodyItem[] = [];
+	private readonly objectOrigins: GateOrigin[] = [];
+	/** The body's items once made (a prefix of the entries; see {@link items}). */
+	private made: BodyItem[] = [];
+	/** Fast-path items made one at a time before the whole body was. */
+	private readonly madeOne = new Map<number, BodyItem>();
+	private readonly gateNames: GateItem['gate'][] = [];
+	private readonly gateCodes = new Map<string, number>();
+	/** OpenQASM names of fast-path calls (their origin is the name, the item's source, no definitions). */
+	private readonly qasmNames: string[] = [];
+	private readonly qasmCodes = new Map<string, number>();
+	/** Per fast-path entry the code of its OpenQASM name. */
+	private qasmOf = new Int32Array(1024);
+	/** Qubit lists of fast-path gates, shared by every gate on the same qubits in the same order (treat as immutable). */
+	private readonly lists: QubitRef[][] = [];
+	private readonly listIds = new Map<number, number>();
+	private readonly angleList: string[] = [];
+	private readonly angleIds = new Map<Num, number>();
 	private originsMade: GateOrigin[] | null = null;
-	/** Gates made so far (a broadcast's gates sit in its block, so this is more than items.length). */
+	/** Gates made so far (a broadcast's gates sit in its block, so this is more than the entry count). */
 	gatesMade = 0;
 	private nextItemId = 1;
 	/** Blocks made for broadcasts (`h q;` over a register stays one call item), by content. */
@@ -52,6 +101,101 @@ export class GateEmitter {
 		private readonly host: EmitHost,
 		private readonly flatToRef: QubitRef[]
 	) {}
+
+	/** Body entries so far. */
+	get length(): number {
+		return this.count;
+	}
+
+	/** The body's items, all made (each once). The same array on every read while nothing is added. */
+	get items(): BodyItem[] {
+		const made = this.made;
+		if (made.length > this.count) made.length = this.count;
+		for (let i = made.length; i < this.count; i++) made.push(this.itemAt(i));
+		return made;
+	}
+
+	/** Item i of the body (made on first read). */
+	itemAt(i: number): BodyItem {
+		if (i < this.made.length) return this.made[i];
+		const o = this.objOf[i];
+		if (o >= 0) return this.objects[o];
+		let item = this.madeOne.get(i);
+		if (item === undefined) {
+			item = this.makeFast(i);
+			if (this.made.length === 0) this.madeOne.set(i, item);
+		}
+		return item;
+	}
+
+	/**
+	 * Entry i's gate name, qubit list and angle text without making its item: what the
+	 * decomposition search reads of every gate. Null for an entry that is not a gate item.
+	 */
+	gateAt(i: number): GateItem['gate'] | null {
+		const o = this.objOf[i];
+		if (o < 0) return this.gateNames[this.cols[i * STRIDE]];
+		const e = this.objects[o];
+		return e.type === 'gate' ? e.gate : null;
+	}
+	qubitsAt(i: number): QubitRef[] {
+		const o = this.objOf[i];
+		return o < 0 ? this.lists[this.cols[i * STRIDE + 1]] : (this.objects[o] as GateItem).qubits;
+	}
+	angleAt(i: number): string | undefined {
+		const o = this.objOf[i];
+		if (o >= 0) return (this.objects[o] as GateItem).angle;
+		const a = this.cols[i * STRIDE + 2];
+		return a < 0 ? undefined : this.angleList[a];
+	}
+
+	private makeFast(i: number): GateItem {
+		const c = this.cols;
+		const k = i * STRIDE;
+		const id = `g${c[k + 5]}`;
+		const gate = this.gateNames[c[k]];
+		const qubits = this.lists[c[k + 1]];
+		const source = { line: c[k + 3], column: c[k + 4] };
+		const a = c[k + 2];
+		return a < 0 ? { id, type: 'gate', gate, qubits, source } : { id, type: 'gate', gate, qubits, source, angle: this.angleList[a] };
+	}
+
+	/** Room for one more entry. */
+	private grow(): void {
+		const n = this.objOf.length * 2;
+		const objOf = new Int32Array(n);
+		objOf.set(this.objOf);
+		this.objOf = objOf;
+		const qasmOf = new Int32Array(n);
+		qasmOf.set(this.qasmOf);
+		this.qasmOf = qasmOf;
+		const cols = new Int32Array(n * STRIDE);
+		cols.set(this.cols);
+		this.cols = cols;
+	}
+
+	/** Add an item made from the start, with its origin. */
+	private addObject(item: BodyItem, origin: GateOrigin): void {
+		if (this.count === this.objOf.length) this.grow();
+		this.objOf[this.count++] = this.objects.length;
+		this.objects.push(item);
+		this.objectOrigins.push(origin);
+	}
+
+	/** Drop the entries from `start` on (a broadcast's gates). */
+	private truncate(start: number): void {
+		let first = this.objects.length;
+		for (let i = start; i < this.count; i++)
+			if (this.objOf[i] >= 0) {
+				first = this.objOf[i];
+				break;
+			}
+		this.objects.length = first;
+		this.objectOrigins.length = first;
+		if (this.made.length > start) this.made.length = start;
+		for (const i of [...this.madeOne.keys()]) if (i >= start) this.madeOne.delete(i);
+		this.count = start;
+	}
 
 	push(gate: GateItem['gate'], qubits: number[], o: Op, angle?: Num, matrix?: Matrix2): void {
 		if (this.gatesMade >= this.host.limits.maxGates) this.host.err(o.origin.call, `more than ${this.host.limits.maxGates} gates after expanding gate definitions (limit)`);
@@ -68,33 +212,65 @@ export class GateEmitter {
 		}
 		if (angle !== undefined) item.angle = this.angleTextOf(angle);
 		if (matrix) item.matrix = matrix;
-		this.items.push(item);
-		this.originOf.push(o.origin);
+		this.addObject(item, o.origin);
 		this.gatesMade++;
 	}
 
 	/**
-	 * One gate item from the reader's fast path (a standard gate without controls to lower), the
-	 * same item {@link push} makes; the origin's call position is the item's `source`.
+	 * One gate from the reader's fast path (a standard gate without controls to lower) on the
+	 * first `nq` (one to three) of flat qubits `qs`, called `qasm` at line:column: kept as ints,
+	 * its item (the one {@link push} would make) made when read.
 	 */
-	pushPlain(gate: GateItem['gate'], qubits: QubitRef[], qasm: string, source: SourcePosition, angle: Num | undefined): void {
-		if (this.gatesMade >= this.host.limits.maxGates) this.host.err(source, `more than ${this.host.limits.maxGates} gates after expanding gate definitions (limit)`);
-		const id = `g${this.nextItemId++}`;
-		this.items.push(angle === undefined ? { id, type: 'gate', gate, qubits, source } : { id, type: 'gate', gate, qubits, source, angle: this.angleTextOf(angle) });
-		this.originOf.push(qasm);
+	pushFast(gate: GateItem['gate'], qs: number[], nq: number, qasm: string, line: number, column: number, angle: Num | undefined): void {
+		if (this.gatesMade >= this.host.limits.maxGates) this.host.err({ line, column }, `more than ${this.host.limits.maxGates} gates after expanding gate definitions (limit)`);
+		const i = this.count;
+		if (i === this.objOf.length) this.grow();
+		let code = this.gateCodes.get(gate);
+		if (code === undefined) {
+			code = this.gateNames.length;
+			this.gateNames.push(gate);
+			this.gateCodes.set(gate, code);
+		}
+		let name = this.qasmCodes.get(qasm);
+		if (name === undefined) {
+			name = this.qasmNames.length;
+			this.qasmNames.push(qasm);
+			this.qasmCodes.set(qasm, name);
+		}
+		let a = -1;
+		if (angle !== undefined) {
+			a = this.angleIds.get(angle) ?? -1;
+			if (a < 0) {
+				a = this.angleList.length;
+				this.angleList.push(this.angleTextOf(angle));
+				// Exported files repeat a few angles, and the reader hands out the same Num for each.
+				if (this.angleIds.size < 10_000) this.angleIds.set(angle, a);
+			}
+		}
+		const c = this.cols;
+		const k = i * STRIDE;
+		c[k] = code;
+		c[k + 1] = this.listId(qs, nq);
+		c[k + 2] = a;
+		c[k + 3] = line;
+		c[k + 4] = column;
+		c[k + 5] = this.nextItemId++;
+		this.objOf[i] = -1;
+		this.qasmOf[i] = name;
+		this.count = i + 1;
 		this.gatesMade++;
 	}
 
-	/** The origin of item i (see {@link originOf}). */
+	/** The origin of entry i: the call's for an item made from the start; for a fast-path gate its OpenQASM name, the item's source and no definitions. */
 	originAt(i: number): GateOrigin {
-		const o = this.originOf[i];
-		return typeof o === 'string' ? { qasm: o, call: this.items[i].source!, definitions: [] } : o;
+		const o = this.objOf[i];
+		return o >= 0 ? this.objectOrigins[o] : { qasm: this.qasmNames[this.qasmOf[i]], call: this.itemAt(i).source!, definitions: [] };
 	}
 
-	/** Per item its origin, made on first use (a large file's reader makes none for plain gates until asked). */
+	/** Per entry its origin, made on first use (a large file's reader makes none for plain gates until asked). */
 	get origins(): GateOrigin[] {
-		if (this.originsMade === null || this.originsMade.length !== this.items.length) {
-			const out: GateOrigin[] = new Array(this.items.length);
+		if (this.originsMade === null || this.originsMade.length !== this.count) {
+			const out: GateOrigin[] = new Array(this.count);
 			for (let i = 0; i < out.length; i++) out[i] = this.originAt(i);
 			this.originsMade = out;
 		}
@@ -102,21 +278,26 @@ export class GateEmitter {
 	}
 
 	/**
-	 * The document's qubit list for flat qubits `qs` (one to three), shared by every item on the
-	 * same qubits in the same order: a large file has few distinct ones (treat as immutable).
+	 * The id of the shared qubit list for the first `nq` (one to three) flat qubits of `qs`: a
+	 * large file has few distinct ones. Past 100 000 qubits or lists, each gate gets its own list.
 	 */
-	qubitList(qs: number[]): QubitRef[] {
+	private listId(qs: number[], nq: number): number {
 		const n = this.flatToRef.length + 1;
-		if (n > 100_000) return qs.map((q) => this.flatToRef[q]);
-		const key = qs.length === 1 ? qs[0] : qs.length === 2 ? n + qs[0] * n + qs[1] : n + n * n + (qs[0] * n + qs[1]) * n + qs[2];
-		let list = this.qubitLists.get(key);
-		if (list === undefined) {
-			list = qs.map((q) => this.flatToRef[q]);
-			if (this.qubitLists.size < 100_000) this.qubitLists.set(key, list);
+		if (n > 100_000) return this.newList(qs, nq);
+		const key = nq === 1 ? qs[0] : nq === 2 ? n + qs[0] * n + qs[1] : n + n * n + (qs[0] * n + qs[1]) * n + qs[2];
+		let id = this.listIds.get(key);
+		if (id === undefined) {
+			id = this.newList(qs, nq);
+			if (this.listIds.size < 100_000) this.listIds.set(key, id);
 		}
-		return list;
+		return id;
 	}
-	private readonly qubitLists = new Map<number, QubitRef[]>();
+	private newList(qs: number[], nq: number): number {
+		const list: QubitRef[] = new Array(nq);
+		for (let k = 0; k < nq; k++) list[k] = this.flatToRef[qs[k]];
+		this.lists.push(list);
+		return this.lists.length - 1;
+	}
 
 	private angleTextOf(angle: Num): string {
 		// Exported files repeat a few angles, and the reader hands out the same Num for each.
@@ -134,7 +315,8 @@ export class GateEmitter {
 	 * takes their place. Without this, `h q;` on 1000 qubits three hundred times stored 300 000 items.
 	 */
 	compactBroadcast(call: GateCall, start: number, register: string): void {
-		const made = this.items.slice(start) as GateItem[];
+		const made: GateItem[] = [];
+		for (let i = start; i < this.count; i++) made.push(this.itemAt(i) as GateItem);
 		if (made.length < 2 || made.length > 10_000) return;
 		const key = JSON.stringify(made.map((it) => [it.gate, it.qubits, it.angle, it.matrix, it.label]));
 		let block = this.broadcastByKey.get(key);
@@ -157,12 +339,10 @@ export class GateEmitter {
 		}
 		const origin = this.originAt(start);
 		const source = made[0].source;
-		this.items.length = start;
-		this.originOf.length = start;
+		this.truncate(start);
 		const item: CallItem = { id: `g${this.nextItemId++}`, type: 'call', block: block.name, args: {}, label: `${call.name} ${register} (broadcast over ${made.length} gates)` };
 		if (source) item.source = source;
-		this.items.push(item);
-		this.originOf.push(origin);
+		this.addObject(item, origin);
 	}
 
 	private phaseGate(ctrls: number[], t: number, a: Num, o: Op): void {

@@ -12,7 +12,9 @@
  * are kept exact (stored as `"k/2^m turn"`), everything else as a float in turns (`"~0.123"`).
  */
 import { lexQasmStream, QasmError, type TokenStream } from './lexer.js';
-import { recogniseDecompositions, type PeepholeReport } from './peephole.js';
+import type { BodyItem } from '../circuit.js';
+import { documentWithBody } from './emit.js';
+import { recogniseIn, type PeepholeReport } from './peephole.js';
 import { applyRegisterMap, RegisterMapError, type RegisterMapEntry } from './register-map.js';
 import { Reader } from './parser.js';
 import { DEFAULT_QASM_LIMITS, type GateOrigin, type QasmImport, type QasmImportOptions } from './types.js';
@@ -68,10 +70,21 @@ export function importQasm(text: string, options: QasmImportOptions = {}): QasmI
 	if (d.inexact) notes.push(`${d.inexact} printed angle${d.inexact === 1 ? '' : 's'} fit no k/2^m turn${r.exactDecimals ? '' : ' (exact reading of decimals is off)'} and stay inexact`);
 	let decompositions: PeepholeReport | undefined;
 	if (options.recogniseDecompositions ?? true) {
-		const p = recogniseDecompositions(document);
+		// Read in place: the emitter's columns, no items made (see GateEmitter).
+		const p = recogniseIn(r.emitter, document.registers);
 		decompositions = p.report;
 		if (p.report.regions || p.report.toffolis || p.report.toffoliPhases || p.report.cancelledPairs) {
-			document = { ...document, body: p.body };
+			// Made when read, like the reader's (the old body is not read here).
+			const d0 = document;
+			document = documentWithBody(
+				{ format: d0.format, version: d0.version, title: d0.title, registers: d0.registers },
+				d0.blocks,
+				() => {
+					const body: BodyItem[] = new Array(p.length);
+					for (let k = 0; k < p.length; k++) body[k] = p.itemAt(k);
+					return body;
+				}
+			);
 			const from = p.from;
 			origins = () => from.map((i) => r.emitter.originAt(i));
 			const parts: string[] = [];

@@ -7,13 +7,13 @@
  * Qubit order: registers are numbered flat in declaration order; q[0] is bit 0 (LSB) of q.
  * Angles: expressions in radians (`Num`).
  */
-import { CIRCUIT_FORMAT, CIRCUIT_VERSION, type BodyItem, type CircuitDocument, type GateItem, type QubitRef } from '../circuit.js';
+import { CIRCUIT_FORMAT, CIRCUIT_VERSION, type CircuitDocument, type GateItem, type QubitRef } from '../circuit.js';
 import { lexQasm, QasmError, type Token, type TokenStream } from './lexer.js';
 import { evaluateTokens, exactNum, numToInteger, readPrintedAngle, type Num, type NumScope } from './expr.js';
 import { BudgetExceeded, shortInteger, WorkBudget } from '../budget.js';
 import { BUILTINS, builtinAvailable, HALF_PI, neg, op, PI, QUARTER_PI, type Builtin } from './gates.js';
 import { Expander, type GateCall, type GateDef, type Modifier } from './expand.js';
-import { GateEmitter } from './emit.js';
+import { documentWithBody, GateEmitter } from './emit.js';
 import type { GateOrigin, PrintedAngleStats, QasmLimits, QasmWarning } from './types.js';
 
 /** Standard gates the fast path reads (any with qubits, except `id`, which makes no gate). */
@@ -107,9 +107,6 @@ export class Reader {
 		this.work = new WorkBudget({ calls: limits.maxCalls, gates: limits.maxGates, qubits: limits.maxQubits });
 	}
 
-	get items(): BodyItem[] {
-		return this.emitter.items;
-	}
 	get origins(): GateOrigin[] {
 		return this.emitter.origins;
 	}
@@ -259,8 +256,9 @@ export class Reader {
 		if (this.defs.size && this.defs.has(name)) return false;
 		while (c === 32 || c === 9) c = text.charCodeAt(++i);
 		// Parameters: texts seen before, split at commas outside parentheses.
+		// Parameters and qubits are written into reused arrays and counted (no length resets).
 		const params = this.fastParams;
-		params.length = 0;
+		let np = 0;
 		if (c === 40) {
 			let depth = 0;
 			let from = i + 1;
@@ -276,7 +274,7 @@ export class Reader {
 					if (a === z) return false;
 					const p = this.paramAt(text, a, z);
 					if (p === undefined) return false;
-					params.push(p);
+					params[np++] = p;
 					from = i + 1;
 					if (c === 41) break;
 				} else if (!PARAM_CHAR[c] || (c === 47 && (text.charCodeAt(i + 1) === 47 || text.charCodeAt(i + 1) === 42))) return false;
@@ -284,10 +282,10 @@ export class Reader {
 			c = text.charCodeAt(++i);
 			while (c === 32 || c === 9) c = text.charCodeAt(++i);
 		}
-		if (params.length !== b.params) return false;
+		if (np !== b.params) return false;
 		// Qubit arguments reg[int], at least one.
 		const qs = this.fastQubits;
-		qs.length = 0;
+		let nq = 0;
 		for (;;) {
 			const regStart = i;
 			if (!isAsciiIdentStart(c)) return false;
@@ -308,8 +306,9 @@ export class Reader {
 			while (c === 32 || c === 9) c = text.charCodeAt(++i);
 			if (c !== 93 || index >= r.size) return false;
 			const q = r.offset + index;
-			for (let k = 0; k < qs.length; k++) if (qs[k] === q) return false;
-			qs.push(q);
+			if (nq === 16) return false;
+			for (let k = 0; k < nq; k++) if (qs[k] === q) return false;
+			qs[nq++] = q;
 			c = text.charCodeAt(++i);
 			while (c === 32 || c === 9) c = text.charCodeAt(++i);
 			if (c === 44) {
@@ -320,27 +319,28 @@ export class Reader {
 			if (c !== 59) return false;
 			break;
 		}
-		if (qs.length !== b.qubits || this.emitter.gatesMade + 1 > this.limits.maxGates) return false;
+		if (nq !== b.qubits || this.emitter.gatesMade + 1 > this.limits.maxGates) return false;
 		// Read: move the lexer past the statement and make what the token path makes.
 		ts.skipTo(i + 1, line, lineStart);
 		FAST_PATH.read++;
-		for (let k = 0; k < params.length; k++) {
+		for (let k = 0; k < np; k++) {
 			const p = params[k];
 			if (p.decimal === 1) {
 				this.decimals.exact++;
 				if (p.difference > this.decimals.largestDifferenceRadians) this.decimals.largestDifferenceRadians = p.difference;
 			} else if (p.decimal === 2) this.decimals.inexact++;
 		}
-		const call = { line, column: nameStart - lineStart + 1 };
+		const column = nameStart - lineStart + 1;
 		const plain = fast.plain;
+		if (plain !== undefined) {
+			this.emitter.pushFast(plain.gate, qs, nq, name, line, column, plain.angle === 'param' ? params[0].value : plain.angle);
+			return true;
+		}
+		const call = { line, column };
 		try {
-			if (plain !== undefined) {
-				this.emitter.pushPlain(plain.gate, this.emitter.qubitList(qs), name, call, plain.angle === 'param' ? params[0].value : plain.angle);
-				return true;
-			}
-			const values: Num[] = new Array(params.length);
-			for (let k = 0; k < params.length; k++) values[k] = params[k].value;
-			const ops = b.build(values, qs.slice(), { qasm: name, call, definitions: [] });
+			const values: Num[] = new Array(np);
+			for (let k = 0; k < np; k++) values[k] = params[k].value;
+			const ops = b.build(values, qs.slice(0, nq), { qasm: name, call, definitions: [] });
 			for (let k = 0; k < ops.length; k++) this.emitter.emit(ops[k]);
 		} catch (e) {
 			if (e instanceof RangeError) this.err(e instanceof BudgetExceeded && e.site && 'line' in e.site ? e.site : call, e.message);
@@ -378,7 +378,7 @@ export class Reader {
 	}
 	private recentNext = 0;
 	private readonly fastParams: FastParam[] = [];
-	private readonly fastQubits: number[] = [];
+	private readonly fastQubits: number[] = new Array<number>(16).fill(0);
 	/** Gate parameter source text → value and how it counts as a printed decimal (0 not one, 1 exact, 2 inexact). */
 	private readonly paramCache = new Map<string, FastParam>();
 	private lastDecimal = 0;
@@ -1193,7 +1193,7 @@ export class Reader {
 			lists.push(all);
 		}
 		const params = call.params.map((ex) => this.cachedParam(ex));
-		const start = this.emitter.items.length;
+		const start = this.emitter.length;
 		for (let k = 0; k < width; k++) {
 			const qs = lists.map((l) => (l.length === 1 ? l[0] : l[k]));
 			// Calls have a few qubits: compare pairs rather than build a set per gate.
@@ -1215,13 +1215,11 @@ export class Reader {
 
 	documentOf(title: string): CircuitDocument {
 		if (this.registers.length === 0) this.err(this.peek(), 'the file declares no qubits; expected at least one qreg or qubit declaration');
-		return {
-			format: CIRCUIT_FORMAT,
-			version: CIRCUIT_VERSION,
-			title,
-			registers: this.registers.map((r) => ({ name: r.name, size: r.size })),
-			body: this.emitter.items,
-			...(this.emitter.broadcastBlocks.length ? { blocks: this.emitter.broadcastBlocks } : {})
-		};
+		// The body's items are made when first read (see GateEmitter).
+		return documentWithBody(
+			{ format: CIRCUIT_FORMAT, version: CIRCUIT_VERSION, title, registers: this.registers.map((r) => ({ name: r.name, size: r.size })) },
+			this.emitter.broadcastBlocks.length ? this.emitter.broadcastBlocks : undefined,
+			() => this.emitter.items
+		);
 	}
 }

@@ -63,6 +63,14 @@ export interface PeepholeResult {
 	report: PeepholeReport;
 }
 
+/** Result read in place: the new body's length and its item k (made when asked; unchanged items are the view's). */
+export interface PeepholeView {
+	length: number;
+	itemAt(k: number): BodyItem;
+	from: number[];
+	report: PeepholeReport;
+}
+
 // Gate kinds.
 const DIAG = 0;
 const CX = 1;
@@ -94,8 +102,33 @@ export function angleString(a: Angle): string {
 export const isZero = (a: Angle) => a.exact && a.num === 0n;
 
 /**
- * The gates: entries 0 … n−1 are the document's body items in order (read in place), rewritten
- * gates are appended. `qs` arrays are shared between entries with the same qubits (never changed).
+ * A body read in place: its length, each entry's gate name, qubit list and angle text (without
+ * making the item: the importer keeps most gates in columns), and the item itself when asked.
+ * A qubit list may be shared by entries on the same qubits (it is read once per list).
+ */
+export interface BodyView {
+	readonly length: number;
+	/** Gate name of entry i, or null when it is not a gate item. */
+	gateAt(i: number): string | null;
+	qubitsAt(i: number): QubitRef[];
+	angleAt(i: number): string | undefined;
+	itemAt(i: number): BodyItem;
+}
+
+/** A body array as a {@link BodyView}. */
+export function viewOf(body: BodyItem[]): BodyView {
+	return {
+		length: body.length,
+		gateAt: (i) => (body[i].type === 'gate' ? (body[i] as GateItem).gate : null),
+		qubitsAt: (i) => (body[i] as GateItem).qubits,
+		angleAt: (i) => (body[i] as GateItem).angle,
+		itemAt: (i) => body[i]
+	};
+}
+
+/**
+ * The gates: entries 0 … n−1 are the body's entries in order (read in place), rewritten gates
+ * are appended. `qs` arrays are shared between entries with the same qubits (never changed).
  */
 class Gates {
 	readonly qs: number[][];
@@ -104,7 +137,7 @@ class Gates {
 	made: Uint8Array;
 	private readonly extra: BodyItem[] = [];
 	length: number;
-	constructor(private readonly body: BodyItem[]) {
+	constructor(private readonly body: BodyView) {
 		const n = body.length;
 		this.qs = new Array(n);
 		this.angle = new Array(n);
@@ -112,7 +145,7 @@ class Gates {
 		this.made = new Uint8Array(n + 64);
 		this.length = n;
 	}
-	/** Set base entry g (a body item). */
+	/** Set base entry g (a body entry). */
 	set(g: number, kind: number, qs: number[], angle: Angle | undefined): void {
 		this.kind[g] = kind;
 		this.qs[g] = qs;
@@ -137,10 +170,10 @@ class Gates {
 		return g;
 	}
 	item(g: number): BodyItem {
-		return g < this.body.length ? this.body[g] : this.extra[g - this.body.length];
+		return g < this.body.length ? this.body.itemAt(g) : this.extra[g - this.body.length];
 	}
 	gate(g: number): string {
-		return (this.item(g) as GateItem).gate;
+		return g < this.body.length ? this.body.gateAt(g)! : (this.extra[g - this.body.length] as GateItem).gate;
 	}
 }
 
@@ -151,20 +184,28 @@ const NO_QUBITS: number[] = [];
  * their native gates (exact up to a global phase). Pure; the document is not changed.
  */
 export function recogniseDecompositions(doc: CircuitDocument, options: PeepholeOptions = {}): PeepholeResult {
+	const v = recogniseIn(viewOf(doc.body), doc.registers, options);
+	const body: BodyItem[] = new Array(v.length);
+	for (let k = 0; k < v.length; k++) body[k] = v.itemAt(k);
+	return { body, from: v.from, report: v.report };
+}
+
+/** {@link recogniseDecompositions} on a body read in place (see {@link BodyView}); the new body is made only when read. */
+export function recogniseIn(view: BodyView, registers: CircuitDocument['registers'], options: PeepholeOptions = {}): PeepholeView {
 	const maxRegion = options.maxRegion ?? 512;
 	const report: PeepholeReport = { regions: 0, toffolis: 0, toffoliPhases: 0, cancelledPairs: 0, rzAsPhase: 0, stoppedAtLimit: false };
 	// Qubit ids are flat positions (register offset + index), so sorting them sorts by register, then index.
 	const offsets = new Map<string, number>();
-	const sizes = new Map(doc.registers.map((r) => [r.name, r.size]));
+	const sizes = new Map(registers.map((r) => [r.name, r.size]));
 	let total = 0;
-	for (const r of doc.registers) {
+	for (const r of registers) {
 		offsets.set(r.name, total);
 		total += r.size;
 	}
 	const refs: QubitRef[] = [];
-	for (const r of doc.registers) for (let i = 0; i < r.size; i++) refs.push({ register: r.name, index: i });
-	const G = classifyAll(doc.body, offsets, sizes);
-	const n = doc.body.length;
+	for (const r of registers) for (let i = 0; i < r.size; i++) refs.push({ register: r.name, index: i });
+	const G = classifyAll(view, offsets, sizes);
+	const n = view.length;
 	let work = 0;
 	const maxWork = options.maxWork ?? 40 * n + 100_000;
 
@@ -304,14 +345,14 @@ export function recogniseDecompositions(doc: CircuitDocument, options: PeepholeO
 			}
 		}
 	}
-	const body: BodyItem[] = new Array(len - goneCount);
+	const order = new Int32Array(len - goneCount);
 	const from: number[] = new Array(len - goneCount);
 	for (let k = 0, o = 0; k < len; k++) {
 		if (gone[k]) continue;
-		body[o] = G.item(out[k]);
+		order[o] = out[k];
 		from[o++] = outFrom[k];
 	}
-	return { body, from, report };
+	return { length: order.length, itemAt: (k) => G.item(order[k]), from, report };
 }
 
 /** Whether two short qubit lists share a qubit (plain loops: this runs for every pair tried). */
@@ -327,19 +368,20 @@ export function sameSet(a: number[], b: number[]): boolean {
 }
 
 /** The body's gates into a {@link Gates} table (a qubit list shared by items is read once). */
-function classifyAll(body: BodyItem[], offsets: Map<string, number>, sizes: Map<string, number>): Gates {
+function classifyAll(body: BodyView, offsets: Map<string, number>, sizes: Map<string, number>): Gates {
 	const G = new Gates(body);
 	const lists = new Map<QubitRef[], number[] | null>();
 	for (let g = 0; g < body.length; g++) {
-		const item = body[g];
-		if (item.type !== 'gate') {
+		const gate = body.gateAt(g);
+		if (gate === null) {
 			G.set(g, BARRIER, NO_QUBITS, undefined);
 			continue;
 		}
-		let qs = lists.get(item.qubits);
+		const qubits = body.qubitsAt(g);
+		let qs = lists.get(qubits);
 		if (qs === undefined) {
 			qs = [];
-			for (const r of item.qubits) {
+			for (const r of qubits) {
 				const size = sizes.get(r.register);
 				if (size === undefined || typeof r.index !== 'number' || !(r.index >= 0 && r.index < size)) {
 					qs = null;
@@ -347,18 +389,18 @@ function classifyAll(body: BodyItem[], offsets: Map<string, number>, sizes: Map<
 				}
 				qs.push((offsets.get(r.register) ?? 0) + r.index);
 			}
-			if (lists.size < 100_000) lists.set(item.qubits, qs);
+			if (lists.size < 100_000) lists.set(qubits, qs);
 		}
 		if (qs === null) {
 			G.set(g, BARRIER, NO_QUBITS, undefined);
 			continue;
 		}
-		switch (item.gate) {
+		switch (gate) {
 			case 'p':
 			case 'cp':
 			case 'mcp':
 			case 'rz':
-				G.set(g, DIAG, qs, readAngle(item.angle ?? '0 turn'));
+				G.set(g, DIAG, qs, readAngle(body.angleAt(g) ?? '0 turn'));
 				break;
 			case 'cx':
 				G.set(g, CX, qs, undefined);
