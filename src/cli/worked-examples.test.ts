@@ -103,3 +103,71 @@ describe('3-bit adder written with def, for and let', () => {
 		expect(run(['count', file, '--param', 'nope']).err).toMatch(/^--param "nope": expected NAME=VALUE/);
 	});
 });
+
+// An OpenQASM 3 file written the way exporters write one: the QFT as a gate definition over
+// placeholder qubit names (Nielsen & Chuang §5.1, Fig. 5.1, with the final swaps, so the whole gate
+// is the DFT with q[0] the least-significant bit), its inverse as `inv @ QFT` (OpenQASM 3
+// specification, "Quantum gate modifiers"), every angle printed as a shortest round-trip double
+// (16 or 17 significant digits), and results read with `c[i] = measure q[j];`. The addition in
+// between is the Fourier adder of Draper 2000 (quant-ph/0008033): after the DFT, qubit j of b
+// carries 2π·b·2^j/2^n, so bit i of a adds the phase 2π·2^(i+j−n) on it, for i + j < n.
+function exporterStyleAdder(n: number, angleOf: (i: number, j: number) => number = (i, j) => 2 * Math.PI * 2 ** (i + j - n)): string {
+	const ph = (k: number) => `_gate_q_${k}`;
+	const qft: string[] = [];
+	for (let j = n - 1; j >= 0; j--) {
+		qft.push(`  h ${ph(j)};`);
+		for (let k = j - 1; k >= 0; k--) qft.push(`  cp(${String(Math.PI / 2 ** (j - k))}) ${ph(k)}, ${ph(j)};`);
+	}
+	for (let i = 0; i < n >> 1; i++) qft.push(`  swap ${ph(i)}, ${ph(n - 1 - i)};`);
+	const b = (j: number) => `q[${n + j}]`;
+	const lines = [
+		'OPENQASM 3.0;',
+		'include "stdgates.inc";',
+		`gate QFT ${Array.from({ length: n }, (_, k) => ph(k)).join(', ')} {`,
+		...qft,
+		'}',
+		`bit[${n}] c;`,
+		`qubit[${2 * n}] q;`,
+		`QFT ${Array.from({ length: n }, (_, j) => b(j)).join(', ')};`
+	];
+	for (let i = 0; i < n; i++) for (let j = 0; i + j < n; j++) lines.push(`cp(${String(angleOf(i, j))}) q[${i}], ${b(j)};`);
+	lines.push(`inv @ QFT ${Array.from({ length: n }, (_, j) => b(j)).join(', ')};`);
+	for (let j = 0; j < n; j++) lines.push(`c[${j}] = measure ${b(j)};`);
+	return lines.join('\n') + '\n';
+}
+
+describe('an exporter-style OpenQASM 3 adder: QFT as a gate definition, inv @ QFT, 16-digit angles, c[i] = measure', () => {
+	const files = new Map<string, string>();
+	const runText = (name: string, text: string, argv: string[]) => {
+		files.set(name, text);
+		const out: string[] = [];
+		const err: string[] = [];
+		const io: Io = { out: (t) => out.push(t), err: (t) => err.push(t), readFile: (p) => files.get(p) ?? readFileSync(p, 'utf8'), writeFile: () => {} };
+		const code = main(['check', name, ...argv], io);
+		return { code, out: out.join('\n'), err: err.join('\n') };
+	};
+	const regs = (n: number) => ['--register', `a=q[0:${n - 1}]`, '--register', `b=q[${n}:${2 * n - 1}]`];
+	it('4 bits: proved, and the sweep of all 256 inputs agrees', () => {
+		const r = runText('adder4.qasm3', exporterStyleAdder(4), ['--spec', 'b = a + b mod 16', ...regs(4)]);
+		// The four measurements make one warning, at the first (OpenQASM 3 `c[i] = measure q[j];`).
+		expect(r.err).toBe('adder4.qasm3:31:1: warning: measure skipped: the checker reads the final state directly (4 measurements skipped in all, lines 31–34)');
+		expect(r.code).toBe(0);
+		expect(r.out).toContain('256 checked (all), 0 failed');
+		expect(r.out).toContain('proof: proved');
+		expect(r.out).toMatch(/printed angles? read as exact k\/2\^m turn/);
+	});
+	it('4 bits with one exponent off by one (a[1] → b[1] added twice the angle): refuted, and the sweep finds every input with a[1] = 1 wrong', () => {
+		const wrong = exporterStyleAdder(4, (i, j) => 2 * Math.PI * 2 ** (i + j - 4 + (i === 1 && j === 1 ? 1 : 0)));
+		const r = runText('adder4-wrong.qasm3', wrong, ['--spec', 'b = a + b mod 16', ...regs(4)]);
+		expect(r.code).toBe(1);
+		expect(r.out).toContain('proof: refuted');
+		// The extra quarter turn on b[1] controlled by a[1] adds 4·a[1] to b: half of all inputs (a[1] = 1) fail.
+		expect(r.out).toContain('256 checked (all), 128 failed');
+	});
+	it('8 bits: proved for all inputs', () => {
+		const r = runText('adder8.qasm3', exporterStyleAdder(8), ['--spec', 'b = a + b mod 256', ...regs(8)]);
+		expect(r.err).toMatch(/^adder8\.qasm3:\d+:1: warning: measure skipped: the checker reads the final state directly \(8 measurements skipped in all, lines \d+–\d+\)$/);
+		expect(r.code).toBe(0);
+		expect(r.out).toContain('proof: proved');
+	});
+});

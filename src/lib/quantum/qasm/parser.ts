@@ -17,6 +17,8 @@ import { documentWithBody, GateEmitter } from './emit.js';
 import type { GateOrigin, PrintedAngleStats, QasmLimits, QasmWarning } from './types.js';
 
 /** Standard gates the fast path reads (any with qubits, except `id`, which makes no gate). */
+const MEASURE_SKIPPED = 'measure skipped: the checker reads the final state directly';
+
 interface FastGate {
 	name: string;
 	builtin: Builtin;
@@ -821,7 +823,7 @@ export class Reader {
 				this.err(t, 'opaque gates have no definition to simulate; define the gate with "gate" instead');
 			// falls through
 			case 'measure':
-				this.skipStatement(t, 'measure skipped: the checker reads the final state directly');
+				this.skipStatement(t, MEASURE_SKIPPED);
 				return;
 			case 'reset':
 				return this.resetStatement();
@@ -853,7 +855,7 @@ export class Reader {
 		}
 		if (this.version === 3 && UNSUPPORTED_3.has(t.text)) this.err(t, `"${t.text}" is not supported; expected gates, gate definitions, registers and const values`);
 		if (this.cregs.has(t.text) && (this.isP('=', 1) || this.isP('[', 1))) {
-			this.skipStatement(t, 'measure skipped: the checker reads the final state directly', true);
+			this.skipStatement(t, MEASURE_SKIPPED, true);
 			return;
 		}
 		const call = this.gateCall(null);
@@ -893,8 +895,20 @@ export class Reader {
 		}
 		if (mustMeasure && !sawMeasure) this.err(t, `assignment to "${t.text}" is not supported; only measurement results may be assigned`);
 		this.next();
+		if (message === MEASURE_SKIPPED && this.measures) {
+			// One warning for every measure of the file (exporters write one per bit), at the first.
+			const m = this.measures;
+			m.count++;
+			m.first = Math.min(m.first, t.line);
+			m.last = Math.max(m.last, t.line);
+			m.warning.message = `${MEASURE_SKIPPED} (${m.count} measurements skipped in all, lines ${m.first}–${m.last})`;
+			return;
+		}
 		this.warn(t, message);
+		if (message === MEASURE_SKIPPED && this.warnings.length) this.measures = { warning: this.warnings[this.warnings.length - 1], count: 1, first: t.line, last: t.line };
 	}
+	/** The one warning for the file's measurements, how many it stands for and their lines. */
+	private measures: { warning: QasmWarning; count: number; first: number; last: number } | null = null;
 
 	private include(): void {
 		const kw = this.next();
@@ -969,7 +983,7 @@ export class Reader {
 		const nameTok = this.expectIdent('a register name');
 		this.declareBits(nameTok);
 		if (this.isP('=')) {
-			this.skipStatement(kw, 'measure skipped: the checker reads the final state directly', true);
+			this.skipStatement(kw, MEASURE_SKIPPED, true);
 			return;
 		}
 		this.expectP(';', `the declaration of "${nameTok.text}"`);
