@@ -49,25 +49,29 @@ export function documentWithBody(head: Omit<CircuitDocument, 'body' | 'blocks'>,
 	return doc;
 }
 
-/** Ints kept per fast-path gate: gate code, qubit list, angle (−1 none), line, column, id number. */
-const STRIDE = 6;
+/**
+ * Ints kept per entry, in one array: for a fast-path gate its gate code, qubit list, angle (−1
+ * none), line, column, id number and OpenQASM name; `OBJ` is −1 for such a gate, else the entry's
+ * index in `objects` (an item made from the start).
+ */
+const STRIDE = 8;
+const OBJ = 6;
+const NAME = 7;
 
 /**
  * Collects the document's body entries and, per entry, its origin.
  *
- * A gate from the reader's fast path (most of a large file) is kept as six ints (gate, qubit
- * list, angle, line, column, id number) and its item is made only when the body is read: making
- * one object per gate and keeping it alive was most of a large import's time (allocation and the
- * collector), and readers such as the upload form's register preview and the decomposition
- * search need no items. Every other gate or call is an item from the start. {@link itemAt} and
- * {@link items} make the same item the fast path made before (same keys in the same order), once.
+ * A gate from the reader's fast path (most of a large file) is kept as eight ints (see `STRIDE`)
+ * and its item is made only when the body is read: making one object per gate and keeping it
+ * alive was most of a large import's time (allocation and the collector), and readers such as
+ * the upload form's register preview and the decomposition search need no items. Every other
+ * gate or call is an item from the start. {@link itemAt} and {@link items} make the same item the
+ * fast path made before (same keys in the same order), once.
  */
 export class GateEmitter {
 	/** Entries so far. */
 	private count = 0;
-	/** Per entry: −1 for a fast-path gate (in `cols`), else its index in `objects`. */
-	private objOf = new Int32Array(1024);
-	private cols = new Int32Array(1024 * STRIDE);
+	private cols: Int32Array<ArrayBuffer>;
 	/** Items made from the start (and their origins), in order. */
 	private readonly objects: BodyItem[] = [];
 	private readonly objectOrigins: GateOrigin[] = [];
@@ -80,8 +84,6 @@ export class GateEmitter {
 	/** OpenQASM names of fast-path calls (their origin is the name, the item's source, no definitions). */
 	private readonly qasmNames: string[] = [];
 	private readonly qasmCodes = new Map<string, number>();
-	/** Per fast-path entry the code of its OpenQASM name. */
-	private qasmOf = new Int32Array(1024);
 	/** Qubit lists of fast-path gates, shared by every gate on the same qubits in the same order (treat as immutable). */
 	private readonly lists: QubitRef[][] = [];
 	private readonly listIds = new Map<number, number>();
@@ -96,11 +98,17 @@ export class GateEmitter {
 	private readonly broadcastByKey = new Map<string, UserBlock>();
 	private readonly angleTexts = new Map<Num, string>();
 
-	/** `flatToRef[q]` names flat qubit q; the reader appends to it as registers are declared. */
+	/**
+	 * `flatToRef[q]` names flat qubit q; the reader appends to it as registers are declared.
+	 * `expected`: entries to make room for at first (a guess from the file's size; it grows).
+	 */
 	constructor(
 		private readonly host: EmitHost,
-		private readonly flatToRef: QubitRef[]
-	) {}
+		private readonly flatToRef: QubitRef[],
+		expected = 1024
+	) {
+		this.cols = new Int32Array(Math.max(1024, Math.min(expected, 1 << 22)) * STRIDE);
+	}
 
 	/** Body entries so far. */
 	get length(): number {
@@ -118,7 +126,7 @@ export class GateEmitter {
 	/** Item i of the body (made on first read). */
 	itemAt(i: number): BodyItem {
 		if (i < this.made.length) return this.made[i];
-		const o = this.objOf[i];
+		const o = this.cols[i * STRIDE + OBJ];
 		if (o >= 0) return this.objects[o];
 		let item = this.madeOne.get(i);
 		if (item === undefined) {
@@ -133,17 +141,17 @@ export class GateEmitter {
 	 * decomposition search reads of every gate. Null for an entry that is not a gate item.
 	 */
 	gateAt(i: number): GateItem['gate'] | null {
-		const o = this.objOf[i];
+		const o = this.cols[i * STRIDE + OBJ];
 		if (o < 0) return this.gateNames[this.cols[i * STRIDE]];
 		const e = this.objects[o];
 		return e.type === 'gate' ? e.gate : null;
 	}
 	qubitsAt(i: number): QubitRef[] {
-		const o = this.objOf[i];
+		const o = this.cols[i * STRIDE + OBJ];
 		return o < 0 ? this.lists[this.cols[i * STRIDE + 1]] : (this.objects[o] as GateItem).qubits;
 	}
 	angleAt(i: number): string | undefined {
-		const o = this.objOf[i];
+		const o = this.cols[i * STRIDE + OBJ];
 		if (o >= 0) return (this.objects[o] as GateItem).angle;
 		const a = this.cols[i * STRIDE + 2];
 		return a < 0 ? undefined : this.angleList[a];
@@ -162,22 +170,15 @@ export class GateEmitter {
 
 	/** Room for one more entry. */
 	private grow(): void {
-		const n = this.objOf.length * 2;
-		const objOf = new Int32Array(n);
-		objOf.set(this.objOf);
-		this.objOf = objOf;
-		const qasmOf = new Int32Array(n);
-		qasmOf.set(this.qasmOf);
-		this.qasmOf = qasmOf;
-		const cols = new Int32Array(n * STRIDE);
+		const cols = new Int32Array(this.cols.length * 2);
 		cols.set(this.cols);
 		this.cols = cols;
 	}
 
 	/** Add an item made from the start, with its origin. */
 	private addObject(item: BodyItem, origin: GateOrigin): void {
-		if (this.count === this.objOf.length) this.grow();
-		this.objOf[this.count++] = this.objects.length;
+		if (this.count * STRIDE === this.cols.length) this.grow();
+		this.cols[this.count++ * STRIDE + OBJ] = this.objects.length;
 		this.objects.push(item);
 		this.objectOrigins.push(origin);
 	}
@@ -186,8 +187,8 @@ export class GateEmitter {
 	private truncate(start: number): void {
 		let first = this.objects.length;
 		for (let i = start; i < this.count; i++)
-			if (this.objOf[i] >= 0) {
-				first = this.objOf[i];
+			if (this.cols[i * STRIDE + OBJ] >= 0) {
+				first = this.cols[i * STRIDE + OBJ];
 				break;
 			}
 		this.objects.length = first;
@@ -224,7 +225,7 @@ export class GateEmitter {
 	pushFast(gate: GateItem['gate'], qs: number[], nq: number, qasm: string, line: number, column: number, angle: Num | undefined): void {
 		if (this.gatesMade >= this.host.limits.maxGates) this.host.err({ line, column }, `more than ${this.host.limits.maxGates} gates after expanding gate definitions (limit)`);
 		const i = this.count;
-		if (i === this.objOf.length) this.grow();
+		if (i * STRIDE === this.cols.length) this.grow();
 		let code = this.gateCodes.get(gate);
 		if (code === undefined) {
 			code = this.gateNames.length;
@@ -255,16 +256,16 @@ export class GateEmitter {
 		c[k + 3] = line;
 		c[k + 4] = column;
 		c[k + 5] = this.nextItemId++;
-		this.objOf[i] = -1;
-		this.qasmOf[i] = name;
+		c[k + OBJ] = -1;
+		c[k + NAME] = name;
 		this.count = i + 1;
 		this.gatesMade++;
 	}
 
 	/** The origin of entry i: the call's for an item made from the start; for a fast-path gate its OpenQASM name, the item's source and no definitions. */
 	originAt(i: number): GateOrigin {
-		const o = this.objOf[i];
-		return o >= 0 ? this.objectOrigins[o] : { qasm: this.qasmNames[this.qasmOf[i]], call: this.itemAt(i).source!, definitions: [] };
+		const o = this.cols[i * STRIDE + OBJ];
+		return o >= 0 ? this.objectOrigins[o] : { qasm: this.qasmNames[this.cols[i * STRIDE + NAME]], call: this.itemAt(i).source!, definitions: [] };
 	}
 
 	/** Per entry its origin, made on first use (a large file's reader makes none for plain gates until asked). */

@@ -86,7 +86,7 @@ export function importQasm(text: string, options: QasmImportOptions = {}): QasmI
 				}
 			);
 			const from = p.from;
-			origins = () => from.map((i) => r.emitter.originAt(i));
+			origins = () => Array.from(from, (i) => r.emitter.originAt(i));
 			const parts: string[] = [];
 			if (p.report.regions) parts.push(`${p.report.regions} CNOT region${p.report.regions === 1 ? '' : 's'} read as diagonal phase gates`);
 			if (p.report.toffolis) parts.push(`${p.report.toffolis} Toffoli network${p.report.toffolis === 1 ? '' : 's'} read as ccx`);

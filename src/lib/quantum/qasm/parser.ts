@@ -104,7 +104,8 @@ export class Reader {
 		defaultVersion: 2 | 3
 	) {
 		this.version = defaultVersion;
-		this.emitter = new GateEmitter({ limits, err: (t, m) => this.err(t, m), nameTaken: (n) => this.defs.has(n) }, this.flatToRef);
+		// Room for about one gate per 16 characters of file at first (exporters' lines are 12 to 30).
+		this.emitter = new GateEmitter({ limits, err: (t, m) => this.err(t, m), nameTaken: (n) => this.defs.has(n) }, this.flatToRef, tokens.text.length >> 4);
 		this.expander = new Expander(this);
 		this.work = new WorkBudget({ calls: limits.maxCalls, gates: limits.maxGates, qubits: limits.maxQubits });
 	}

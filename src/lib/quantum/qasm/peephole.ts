@@ -63,11 +63,11 @@ export interface PeepholeResult {
 	report: PeepholeReport;
 }
 
-/** Result read in place: the new body's length and its item k (made when asked; unchanged items are the view's). */
+/** Result read in place: the new body's length, its item k (made when asked; unchanged items are the view's) and per item the index of the old one it came from. */
 export interface PeepholeView {
 	length: number;
 	itemAt(k: number): BodyItem;
-	from: number[];
+	from: Int32Array;
 	report: PeepholeReport;
 }
 
@@ -187,7 +187,7 @@ export function recogniseDecompositions(doc: CircuitDocument, options: PeepholeO
 	const v = recogniseIn(viewOf(doc.body), doc.registers, options);
 	const body: BodyItem[] = new Array(v.length);
 	for (let k = 0; k < v.length; k++) body[k] = v.itemAt(k);
-	return { body, from: v.from, report: v.report };
+	return { body, from: Array.from(v.from), report: v.report };
 }
 
 /** {@link recogniseDecompositions} on a body read in place (see {@link BodyView}); the new body is made only when read. */
@@ -346,7 +346,7 @@ export function recogniseIn(view: BodyView, registers: CircuitDocument['register
 		}
 	}
 	const order = new Int32Array(len - goneCount);
-	const from: number[] = new Array(len - goneCount);
+	const from = new Int32Array(len - goneCount);
 	for (let k = 0, o = 0; k < len; k++) {
 		if (gone[k]) continue;
 		order[o] = out[k];
