@@ -50,13 +50,13 @@ export function documentWithBody(head: Omit<CircuitDocument, 'body' | 'blocks'>,
 }
 
 /**
- * Ints kept per entry, in one array: for a fast-path gate its gate code, qubit list, angle (−1
- * none), line, column, id number and OpenQASM name; `OBJ` is −1 for such a gate, else the entry's
- * index in `objects` (an item made from the start).
+ * Ints kept per entry, in one array: for a fast-path gate the reader's code for its call (which
+ * names the document gate and the OpenQASM name), qubit list, angle (−1 none), line, column and
+ * id number; `OBJ` is −1 for such a gate, else the entry's index in `objects` (an item made from
+ * the start).
  */
-const STRIDE = 8;
+const STRIDE = 7;
 const OBJ = 6;
-const NAME = 7;
 
 /**
  * Collects the document's body entries and, per entry, its origin.
@@ -79,11 +79,9 @@ export class GateEmitter {
 	private made: BodyItem[] = [];
 	/** Fast-path items made one at a time before the whole body was. */
 	private readonly madeOne = new Map<number, BodyItem>();
+	/** By the reader's call code: the document gate and the OpenQASM name (a fast-path gate's origin is the name, the item's source, no definitions). */
 	private readonly gateNames: GateItem['gate'][] = [];
-	private readonly gateCodes = new Map<string, number>();
-	/** OpenQASM names of fast-path calls (their origin is the name, the item's source, no definitions). */
 	private readonly qasmNames: string[] = [];
-	private readonly qasmCodes = new Map<string, number>();
 	/** Qubit lists of fast-path gates, shared by every gate on the same qubits in the same order (treat as immutable). */
 	private readonly lists: QubitRef[][] = [];
 	private readonly listIds = new Map<number, number>();
@@ -218,28 +216,23 @@ export class GateEmitter {
 	}
 
 	/**
-	 * One gate from the reader's fast path (a standard gate without controls to lower) on the
-	 * first `nq` (one to three) of flat qubits `qs`, called `qasm` at line:column: kept as ints,
-	 * its item (the one {@link push} would make) made when read.
+	 * One gate from the reader's fast path (a standard gate without controls to lower): the call
+	 * `qasm` (the reader's `code` for it, always the same document `gate`) on the first `nq` (one to
+	 * three) of flat qubits `qs` at line:column, with `angle`, which is the value of the reader's
+	 * remembered parameter `param` when there is one (it keeps the angle's number here). Kept as
+	 * ints, its item (the one {@link push} would make) made when read.
 	 */
-	pushFast(gate: GateItem['gate'], qs: number[], nq: number, qasm: string, line: number, column: number, angle: Num | undefined): void {
+	pushFast(code: number, gate: GateItem['gate'], qasm: string, qs: number[], nq: number, line: number, column: number, angle: Num | undefined, param: { angleId: number } | null): void {
 		if (this.gatesMade >= this.host.limits.maxGates) this.host.err({ line, column }, `more than ${this.host.limits.maxGates} gates after expanding gate definitions (limit)`);
 		const i = this.count;
 		if (i * STRIDE === this.cols.length) this.grow();
-		let code = this.gateCodes.get(gate);
-		if (code === undefined) {
-			code = this.gateNames.length;
-			this.gateNames.push(gate);
-			this.gateCodes.set(gate, code);
-		}
-		let name = this.qasmCodes.get(qasm);
-		if (name === undefined) {
-			name = this.qasmNames.length;
-			this.qasmNames.push(qasm);
-			this.qasmCodes.set(qasm, name);
+		if (this.gateNames[code] === undefined) {
+			this.gateNames[code] = gate;
+			this.qasmNames[code] = qasm;
 		}
 		let a = -1;
-		if (angle !== undefined) {
+		if (param !== null && param.angleId >= 0) a = param.angleId;
+		else if (angle !== undefined) {
 			a = this.angleIds.get(angle) ?? -1;
 			if (a < 0) {
 				a = this.angleList.length;
@@ -247,6 +240,7 @@ export class GateEmitter {
 				// Exported files repeat a few angles, and the reader hands out the same Num for each.
 				if (this.angleIds.size < 10_000) this.angleIds.set(angle, a);
 			}
+			if (param !== null) param.angleId = a;
 		}
 		const c = this.cols;
 		const k = i * STRIDE;
@@ -257,7 +251,6 @@ export class GateEmitter {
 		c[k + 4] = column;
 		c[k + 5] = this.nextItemId++;
 		c[k + OBJ] = -1;
-		c[k + NAME] = name;
 		this.count = i + 1;
 		this.gatesMade++;
 	}
@@ -265,7 +258,7 @@ export class GateEmitter {
 	/** The origin of entry i: the call's for an item made from the start; for a fast-path gate its OpenQASM name, the item's source and no definitions. */
 	originAt(i: number): GateOrigin {
 		const o = this.cols[i * STRIDE + OBJ];
-		return o >= 0 ? this.objectOrigins[o] : { qasm: this.qasmNames[this.cols[i * STRIDE + NAME]], call: this.itemAt(i).source!, definitions: [] };
+		return o >= 0 ? this.objectOrigins[o] : { qasm: this.qasmNames[this.cols[i * STRIDE]], call: this.itemAt(i).source!, definitions: [] };
 	}
 
 	/** Per entry its origin, made on first use (a large file's reader makes none for plain gates until asked). */

@@ -16,21 +16,27 @@ import { Expander, type GateCall, type GateDef, type Modifier } from './expand.j
 import { documentWithBody, GateEmitter } from './emit.js';
 import type { GateOrigin, PrintedAngleStats, QasmLimits, QasmWarning } from './types.js';
 
-/** Standard gates the fast path reads (any with qubits, except `id`, which makes no gate). */
 const MEASURE_SKIPPED = 'measure skipped: the checker reads the final state directly';
 
+/** Standard gates the fast path reads (any with qubits, except `id`, which makes no gate); `code` is its index in FAST_GATES. */
 interface FastGate {
 	name: string;
 	builtin: Builtin;
 	plain: (typeof PLAIN_GATES)[string] | undefined;
+	code: number;
 }
-/** A gate parameter's source text, its value, and how it counts as a printed decimal (0 not one, 1 exact, 2 inexact). */
+/**
+ * A gate parameter's source text, its value, how it counts as a printed decimal (0 not one, 1
+ * exact, 2 inexact), and the emitter's number for its angle (−1 until the emitter gives one).
+ */
 interface FastParam {
 	key: string;
 	value: Num;
 	decimal: number;
 	difference: number;
+	angleId: number;
 }
+const FAST_GATES: FastGate[] = [];
 /** Fast-path gates by the char code of their name's first letter. */
 const FAST_BY_FIRST: (FastGate[] | undefined)[] = new Array(128);
 const NO_FAST: FastGate[] = [];
@@ -62,7 +68,11 @@ const PLAIN_GATES: Record<string, { gate: GateItem['gate']; angle?: Num | 'param
 /** The reader's fast path for plain gate calls (tests turn it off to compare with the token path). */
 export const FAST_PATH = { enabled: true, /** statements it has read (for the tests) */ read: 0 };
 for (const [name, builtin] of Object.entries(BUILTINS))
-	if (builtin.qubits > 0 && name !== 'id') (FAST_BY_FIRST[name.charCodeAt(0)] ??= []).push({ name, builtin, plain: PLAIN_GATES[name] });
+	if (builtin.qubits > 0 && name !== 'id') {
+		const f: FastGate = { name, builtin, plain: PLAIN_GATES[name], code: FAST_GATES.length };
+		FAST_GATES.push(f);
+		(FAST_BY_FIRST[name.charCodeAt(0)] ??= []).push(f);
+	}
 const isAsciiIdentStart = (c: number) => (c >= 97 && c <= 122) || (c >= 65 && c <= 90) || c === 95;
 const isAsciiIdentPart = (c: number) => isAsciiIdentStart(c) || (c >= 48 && c <= 57);
 /** Characters a fast-path parameter may hold: names, numbers, + - * / . ( ) and blanks. */
@@ -211,7 +221,7 @@ export class Reader {
 		if (this.warnings.length !== warned || this.paramCache.size >= 10_000) return v;
 		for (const t of ex) if (t.kind === 'string' || (t.kind === 'ident' && this.consts.has(t.text))) return v;
 		const key = this.tokens.text.slice(ex[0].start, ex[ex.length - 1].end);
-		if (!this.paramCache.has(key)) this.paramCache.set(key, { key, value: v, decimal: this.lastDecimal, difference: this.lastDecimalDiff });
+		if (!this.paramCache.has(key)) this.paramCache.set(key, { key, value: v, decimal: this.lastDecimal, difference: this.lastDecimalDiff, angleId: -1 });
 		return v;
 	}
 
@@ -336,7 +346,8 @@ export class Reader {
 		const column = nameStart - lineStart + 1;
 		const plain = fast.plain;
 		if (plain !== undefined) {
-			this.emitter.pushFast(plain.gate, qs, nq, name, line, column, plain.angle === 'param' ? params[0].value : plain.angle);
+			if (plain.angle === 'param') this.emitter.pushFast(fast.code, plain.gate, name, qs, nq, line, column, params[0].value, params[0]);
+			else this.emitter.pushFast(fast.code, plain.gate, name, qs, nq, line, column, plain.angle, null);
 			return true;
 		}
 		const call = { line, column };
