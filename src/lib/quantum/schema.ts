@@ -5,7 +5,7 @@
  */
 import { z } from 'zod';
 import { MAX_ANGLE_TEXT, parseAngle } from './angle.js';
-import { CIRCUIT_FORMAT, CIRCUIT_VERSION, DEFAULT_LIMITS } from './circuit.js';
+import { CIRCUIT_FORMAT, CIRCUIT_VERSION, DEFAULT_LIMITS, MAX_BODY_ITEMS } from './circuit.js';
 import { upgradeLegacyDocument } from './legacy.js';
 import type { BodyItem, CircuitDocument, UserBlock } from './circuit.js';
 
@@ -127,7 +127,7 @@ export const circuitDocumentSchema = z.strictObject({
 		)
 		.min(1)
 		.max(256),
-	body: z.array(bodyItemSchema).max(100_000),
+	body: z.array(bodyItemSchema).max(MAX_BODY_ITEMS),
 	blocks: z.array(userBlock).max(256).optional(),
 	defaults: z.strictObject({ ccpLowering: ccpLowering.optional(), layout: layout.optional() }).optional(),
 	specs: z.array(z.string().min(1).max(500)).max(16).optional(),

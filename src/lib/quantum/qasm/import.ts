@@ -12,7 +12,7 @@
  * are kept exact (stored as `"k/2^m turn"`), everything else as a float in turns (`"~0.123"`).
  */
 import { lexQasmStream, QasmError, type TokenStream } from './lexer.js';
-import type { BodyItem } from '../circuit.js';
+import { MAX_BODY_ITEMS, type BodyItem } from '../circuit.js';
 import { documentWithBody } from './emit.js';
 import { recogniseIn, type PeepholeReport } from './peephole.js';
 import { applyRegisterMap, RegisterMapError, type RegisterMapEntry } from './register-map.js';
@@ -69,6 +69,9 @@ export function importQasm(text: string, options: QasmImportOptions = {}): QasmI
 	if (d.exact) notes.push(`${d.exact} printed angle${d.exact === 1 ? '' : 's'} read as exact k/2^m turn (largest difference ${d.largestDifferenceRadians.toExponential(2)} rad)`);
 	if (d.inexact) notes.push(`${d.inexact} printed angle${d.inexact === 1 ? '' : 's'} fit no k/2^m turn${r.exactDecimals ? '' : ' (exact reading of decimals is off)'} and stay inexact`);
 	let decompositions: PeepholeReport | undefined;
+	// The body's length, and the reader's entry item k came from (the recogniser may rewrite the body).
+	let bodyLength = () => r.emitter.length;
+	let itemFrom = (k: number) => k;
 	if (options.recogniseDecompositions ?? true) {
 		// Read in place: the emitter's columns, no items made (see GateEmitter).
 		const p = recogniseIn(r.emitter, document.registers);
@@ -86,6 +89,8 @@ export function importQasm(text: string, options: QasmImportOptions = {}): QasmI
 				}
 			);
 			const from = p.from;
+			bodyLength = () => p.length;
+			itemFrom = (k) => from[k];
 			origins = () => Array.from(from, (i) => r.emitter.originAt(i));
 			const parts: string[] = [];
 			if (p.report.regions) parts.push(`${p.report.regions} CNOT region${p.report.regions === 1 ? '' : 's'} read as diagonal phase gates`);
@@ -96,6 +101,17 @@ export function importQasm(text: string, options: QasmImportOptions = {}): QasmI
 			notes.push(`decomposed gates recognised: ${parts.join(', ')}${p.report.rzAsPhase ? ` (rz read as p: equal up to a global phase)` : ''}`);
 		}
 		if (p.report.stoppedAtLimit) notes.push('recognition of decomposed gates stopped at its work limit; the rest of the file is read as written');
+	}
+	// A document holds at most MAX_BODY_ITEMS items: name the gate that crosses it (the schema would only say "body").
+	const items = bodyLength();
+	if (items > MAX_BODY_ITEMS) {
+		const at = r.emitter.originAt(itemFrom(MAX_BODY_ITEMS)).call;
+		throw new QasmError(
+			at.line,
+			at.column,
+			`more than ${MAX_BODY_ITEMS} top-level gates: a circuit holds at most ${MAX_BODY_ITEMS} items; write repeated parts as gate definitions, loops or broadcasts`,
+			file
+		);
 	}
 	if (r.topLets.length) {
 		// OpenQASM 3 `let` aliases of one register become registers of the document.

@@ -21,6 +21,12 @@ const CASES: [string, string, string, QasmImportOptions?][] = [
 	['unexpected character', "4:9: unexpected character \"$\"", H2 + 'qreg q[1];\nh q[0]; $\n'],
 	// import.ts
 	['file too large', "3:10: file is too large: 63 characters exceeds the limit of 45; the limit is crossed here", H2 + 'qreg q[1];\nh q[0];\nh q[0];\n', { limits: { maxBytes: 45 } }],
+	// A document holds at most 100 000 body items (MAX_BODY_ITEMS); the 100 001st top-level gate is named (it was a schema message about "body").
+	[
+		'too many top-level gates',
+		"100004:1: more than 100000 top-level gates: a circuit holds at most 100000 items; write repeated parts as gate definitions, loops or broadcasts",
+		H2 + 'qreg q[2];\n' + 'h q[0];\n'.repeat(100_001)
+	],
 	// parser.ts: header
 	['version not a number', "1:10: bad version header: expected a version number after OPENQASM (2.0 or 3.0), found \"two\"", 'OPENQASM two;\n'],
 	['unsupported version', "1:10: bad version header: unsupported OpenQASM version 4.0; expected 2.0 or 3.0", 'OPENQASM 4.0;\n'],
