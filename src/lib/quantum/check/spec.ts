@@ -9,6 +9,7 @@
 import { create, parseDependencies } from 'mathjs';
 import type { MathNode } from 'mathjs';
 import type { PlacedRegister } from '../circuit.js';
+import { readSpecExpression, type ReadNode } from './spec-reader.js';
 
 const math = create({ parseDependencies }, { number: 'bigint' });
 
@@ -72,6 +73,9 @@ export function parseSpec(text: string, registers: { name: string; size: number 
 	}
 	const parse = (s: string, col: number): MathNode => {
 		if (s.trim() === '') throw new SpecError(text, col, 'expected an expression');
+		// The common form is read without mathjs (the same tree, see spec-reader.ts).
+		const read = readSpecExpression(s);
+		if (read) return read as unknown as MathNode;
 		try {
 			return math.parse(s);
 		} catch (e) {
@@ -88,8 +92,19 @@ export function parseSpec(text: string, registers: { name: string; size: number 
 	return { text, out, outSize: outReg.size, expr, modulus, reads: [...reads] };
 }
 
+/** Every node of the tree, parent first (mathjs's own traverse, or the same order for a tree of spec-reader.ts). */
+function traverse(node: MathNode, visit: (n: MathNode, parent: MathNode | null) => void): void {
+	if (typeof (node as { traverse?: unknown }).traverse === 'function') return node.traverse((n, _path, parent) => visit(n, parent));
+	const walk = (n: ReadNode, parent: ReadNode | null): void => {
+		visit(n as unknown as MathNode, parent as unknown as MathNode | null);
+		if (n.type === 'OperatorNode') for (const a of n.args) walk(a, n);
+		else if (n.type === 'ParenthesisNode') walk(n.content, n);
+	};
+	walk(node as unknown as ReadNode, null);
+}
+
 function validateNode(text: string, node: MathNode, base: number, src: string, registers: { name: string }[], reads: Set<string>): void {
-	node.traverse((n, _path, parent) => {
+	traverse(node, (n, parent) => {
 		const nd = n as unknown as { type: string; name?: string; fn?: string | { name: string }; value?: unknown };
 		if (nd.type === 'SymbolNode') {
 			const isFn = parent && (parent as unknown as { type: string; fn?: unknown }).type === 'FunctionNode' && (parent as unknown as { fn: unknown }).fn === n;
