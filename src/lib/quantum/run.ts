@@ -98,41 +98,10 @@ export class Run {
 
 	/** The frame at `step`: every qubit's state, expectation and divergence; serialisable. */
 	frameAt(step: number): TraceFrame {
-		const st = this.stateAt(step);
-		const c = this.circuit;
-		const tol = this.sim.tol;
-		const states = st.engine === 'ledger' ? statesFromLedger(st.ledger, this.sim.ledgerTables, tol) : statesFromAmplitudes(st.amplitudes, tol);
-		const qubits: QubitFrame[] = [];
-		for (const r of c.registers)
-			for (let i = 0; i < r.size; i++) {
-				const q = r.offset + i;
-				const ex = this.expectedAt(q, step);
-				let divergenceValue: SignedAngle | null = null;
-				let matches: boolean | null = null;
-				if (ex.expected) {
-					const cmp = compareState(states[q], ex.expected, tol);
-					divergenceValue = cmp.divergence;
-					matches = cmp.matches;
-				}
-				qubits.push({ qubit: q, register: r.name, index: i, state: states[q], expected: ex.expected, expectedStep: ex.step, fresh: ex.fresh, divergence: divergenceValue, matches });
-			}
-		const { registerValues, distributions } = registerReadout(c, states, st.engine === 'amplitudes' ? st.amplitudes : null);
-		const blockPath: number[] = [];
-		for (const b of c.blocks) if (b.start <= step && step < b.end) blockPath.push(b.index);
-		return {
-			step,
-			gate: step > 0 ? gateAt(c, step - 1) : null,
-			engine: st.engine,
-			handover: this.handover && step > this.handover.step ? this.handover : null,
-			qubits,
-			registerValues,
-			distributions,
-			blockPath,
-			checksum: checksumOf(st.engine, step, states)
-		};
+		this.checkStep(step);
+		return frameOf(this.sim, this.circuit, step);
 	}
 
-	/** The ledger of qubit q: every contribution with the running total and the expectation at that step (turns). */
 	qubitLedger(q: number): { entries: LedgerEntry[]; firstParted: number | null } {
 		const sim = this.sim;
 		return qubitLedgerHistory(
@@ -190,6 +159,53 @@ export class Run {
 }
 
 /** Ledger global phase of the final state (turns), when the run stayed on the ledger. */
+/** The frame at `step` of a simulation that reached it (a Run's frameAt without the step check). */
+function frameOf(sim: Simulation, c: LoweredCircuit, step: number): TraceFrame {
+	const st = replayTo(sim, c, step);
+	const tol = sim.tol;
+	const states = st.engine === 'ledger' ? statesFromLedger(st.ledger, sim.ledgerTables, tol) : statesFromAmplitudes(st.amplitudes, tol);
+	const qubits: QubitFrame[] = [];
+	for (const r of c.registers)
+		for (let i = 0; i < r.size; i++) {
+			const q = r.offset + i;
+			const ex = sim.expectations.expectedAt(q, step);
+			let divergenceValue: SignedAngle | null = null;
+			let matches: boolean | null = null;
+			if (ex.expected) {
+				const cmp = compareState(states[q], ex.expected, tol);
+				divergenceValue = cmp.divergence;
+				matches = cmp.matches;
+			}
+			qubits.push({ qubit: q, register: r.name, index: i, state: states[q], expected: ex.expected, expectedStep: ex.step, fresh: ex.fresh, divergence: divergenceValue, matches });
+		}
+	const { registerValues, distributions } = registerReadout(c, states, st.engine === 'amplitudes' ? st.amplitudes : null);
+	const blockPath: number[] = [];
+	for (const b of c.blocks) if (b.start <= step && step < b.end) blockPath.push(b.index);
+	return {
+		step,
+		gate: step > 0 ? gateAt(c, step - 1) : null,
+		engine: st.engine,
+		handover: sim.handover && step > sim.handover.step ? sim.handover : null,
+		qubits,
+		registerValues,
+		distributions,
+		blockPath,
+		checksum: checksumOf(st.engine, step, states)
+	};
+}
+
+/**
+ * Step 0 alone (the inputs), without the pass over every gate: the same frame as
+ * `new Run(circuit, inputs, options).frameAt(0)` (engine.test.ts compares them on every template), for a page that
+ * draws the board while the whole run is still being computed. The specs' expectations (the
+ * intents) are left out: they state angles inside Fourier sections, which begin after a QFT, so
+ * never at step 0.
+ */
+export function firstFrame(circuit: LoweredCircuit, inputs: RunInputs = {}, options: RunOptions = {}): TraceFrame {
+	const sim = simulate(circuit, inputs, { ...options, intents: [], intentSections: [], untilStep: 0 });
+	return frameOf(sim, circuit, 0);
+}
+
 export function finalGlobalPhase(run: Run): Angle | null {
 	const st = run.stateAt(run.lastStep);
 	return st.engine === 'ledger' ? ledgerGlobalPhase(st.ledger, buildLedgerTables(run.circuit)) : null;

@@ -7,6 +7,11 @@ import type { BreakpointSpec, FrameView, GateRow, LedgerView, RunRequestInputs, 
 export class RunSession {
 	summary = $state.raw<RunSummary | null>(null);
 	frame = $state.raw<FrameView | null>(null);
+	/**
+	 * Step 0 of the first run while the rest is computed (the worker's first message): the board
+	 * draws it; everything else waits for `frame` and `summary`. Null once the run is loaded.
+	 */
+	preview = $state.raw<FrameView | null>(null);
 	ledger = $state.raw<LedgerView | null>(null);
 	error = $state<{ message: string; path?: string } | null>(null);
 	loading = $state(false);
@@ -39,9 +44,15 @@ export class RunSession {
 		this.pause();
 		this.loading = true;
 		this.error = null;
+		// A preview only where nothing is shown yet and the run opens at step 0 (a replay that opens
+		// at a later step waits for its own frame).
+		const wantsPreview = !this.summary && !this.frame && (atStep ?? 0) === 0;
 		try {
 			// Plain copies: postMessage cannot clone Svelte's reactive proxies.
-			const res = await this.#c().request({ type: 'load', doc: $state.snapshot(doc) as CircuitDocument, inputs: $state.snapshot(inputs) as RunRequestInputs });
+			const res = await this.#c().request({ type: 'load', doc: $state.snapshot(doc) as CircuitDocument, inputs: $state.snapshot(inputs) as RunRequestInputs }, undefined, (f) => {
+				if (wantsPreview && seq === this.#loadSeq) this.preview = f;
+			});
+			this.preview = null;
 			if (seq !== this.#loadSeq) return;
 			if (res.type === 'error') {
 				this.error = { message: res.message, path: res.path };
@@ -56,6 +67,7 @@ export class RunSession {
 			if (this.selectedQubit !== null && this.selectedQubit >= res.summary.qubitCount) this.selectedQubit = null;
 			await this.refreshLedger();
 		} catch (e) {
+			this.preview = null;
 			if ((e as Error).message !== 'cancelled') this.error = { message: (e as Error).message };
 		} finally {
 			if (seq === this.#loadSeq) this.loading = false;

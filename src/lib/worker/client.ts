@@ -1,8 +1,8 @@
 // Promise-based client of the engine worker. A long load can be cancelled: the worker is
 // terminated and a fresh one started, so the page never waits on a runaway computation.
-import type { WorkerRequest, WorkerResponse } from './protocol';
+import type { FrameView, WorkerRequest, WorkerResponse } from './protocol';
 
-type Pending = { resolve: (r: WorkerResponse) => void; reject: (e: Error) => void; progress?: (done: number, total: number) => void };
+type Pending = { resolve: (r: WorkerResponse) => void; reject: (e: Error) => void; progress?: (done: number, total: number) => void; preview?: (frame: FrameView) => void };
 type Body<T> = T extends unknown ? Omit<T, 'id'> : never;
 
 export class EngineClient {
@@ -16,6 +16,7 @@ export class EngineClient {
 			const p = this.#pending.get(e.data.id);
 			if (!p) return;
 			if (e.data.type === 'progress') return p.progress?.(e.data.done, e.data.total);
+			if (e.data.type === 'preview') return p.preview?.(e.data.frame);
 			this.#pending.delete(e.data.id);
 			p.resolve(e.data);
 		};
@@ -26,11 +27,12 @@ export class EngineClient {
 		return w;
 	}
 
-	request(body: Body<WorkerRequest>, progress?: (done: number, total: number) => void): Promise<WorkerResponse> {
+	/** Ask the worker; `progress` hears a check's progress, `preview` a load's step 0 before its answer. */
+	request(body: Body<WorkerRequest>, progress?: (done: number, total: number) => void, preview?: (frame: FrameView) => void): Promise<WorkerResponse> {
 		this.#worker ??= this.#spawn();
 		const id = this.#next++;
 		return new Promise((resolve, reject) => {
-			this.#pending.set(id, { resolve, reject, progress });
+			this.#pending.set(id, { resolve, reject, progress, preview });
 			try {
 				this.#worker!.postMessage({ ...body, id } as WorkerRequest);
 			} catch (e) {

@@ -2,7 +2,9 @@ import { readFileSync } from 'node:fs';
 import { importQasm } from '$lib/quantum/qasm/import';
 import { describe, expect, it } from 'vitest';
 import { EngineSession, handleRequest, parseInputValue, runCheck } from './engine';
-import { makeTemplate, plantedFaultAdder, demoMultiplier } from '$lib/quantum/templates';
+import { makeTemplate, plantedFaultAdder, demoMultiplier, periodFindingUnreduced, TEMPLATE_NAMES } from '$lib/quantum/templates';
+import type { CircuitDocument } from '$lib/quantum/circuit';
+import type { FrameView } from './protocol';
 
 describe('engine session (what the workbench worker serves)', () => {
 	it('a 3-bit Fourier adder with a = 5, b = 6 ends with b = 3 (11 mod 8; arithmetic)', () => {
@@ -144,5 +146,54 @@ describe('the check a workbench runs', () => {
 			expect(d?.qubit).toBe('b[3]');
 			expect(d?.gate).toContain('c[0], a[1] → b[3]');
 		}
+	});
+});
+
+describe('step 0 before the whole run (the preview the board draws first)', () => {
+	// The preview is computed without the specs' section angles and without the pass over the
+	// gates; it must be exactly the frame the whole run gives at step 0, values, expectations,
+	// notes, checksum and all.
+	const adder3 = readFileSync('src/lib/quantum/qasm/fixtures/adder3.qasm', 'utf8');
+	const imported = importQasm(adder3, { file: 'adder3.qasm' }).document;
+	imported.specs = ['b = a + b mod 8'];
+	const docs: [string, CircuitDocument][] = [
+		...TEMPLATE_NAMES.flatMap((n) => [2, 3].map((bits): [string, CircuitDocument] => [`${n} ${bits}`, makeTemplate(n, '', bits)])),
+		['multiplier 16', makeTemplate('multiplier', '', 16)],
+		['planted fault', plantedFaultAdder()],
+		['demo multiplier', demoMultiplier()],
+		['period finding, unreduced', periodFindingUnreduced()],
+		['imported adder3.qasm with a spec', imported]
+	];
+
+	it('equals frame(0) of the finished run for every template, the demos and an imported file, on several inputs', () => {
+		let compared = 0;
+		for (const [name, doc] of docs) {
+			const regs = doc.registers;
+			const inputSets: { values: Record<string, string>; superposed: string[] }[] = [
+				{ values: {}, superposed: [] },
+				{ values: Object.fromEntries(regs.map((r, i) => [r.name, String(((i + 1) * 5) % 2 ** Math.min(r.size, 20))])), superposed: [] },
+				{ values: Object.fromEntries(regs.map((r) => [r.name, String(2 ** Math.min(r.size, 20) - 1)])), superposed: [] }
+			];
+			if (regs.length > 1 && regs[0].size <= 4) inputSets.push({ values: {}, superposed: [regs[0].name] });
+			for (const inputs of inputSets) {
+				const previews: FrameView[] = [];
+				const out = handleRequest(null, { id: 1, type: 'load', doc: structuredClone(doc), inputs }, undefined, (f) => previews.push(f));
+				if (out.response.type !== 'loaded') throw new Error(`${name}: ${JSON.stringify(out.response)}`);
+				expect(previews.length, name).toBe(1);
+				expect(previews[0], `${name} ${JSON.stringify(inputs)}`).toEqual(out.response.frame);
+				expect(previews[0]).toEqual(out.session!.frame(0));
+				compared++;
+			}
+		}
+		expect(compared).toBeGreaterThan(40);
+	});
+
+	it('a load that fails sends no preview when lowering fails, and the error as before', () => {
+		const doc = makeTemplate('adder');
+		(doc.body[1] as { addend: string }).addend = 'nope';
+		const previews: FrameView[] = [];
+		const out = handleRequest(null, { id: 7, type: 'load', doc, inputs: { values: {}, superposed: [] } }, undefined, (f) => previews.push(f));
+		expect(out.response.type).toBe('error');
+		expect(previews).toEqual([]);
 	});
 });

@@ -1,7 +1,7 @@
 // The workbench's engine session: one Run over one circuit and input, and the views the page
 // draws. Pure (no DOM): the worker wraps it, and tests drive it directly in Node.
 import { lowerCircuit, LoweringError } from '$lib/quantum/lower';
-import { Run, type QubitFrame, type TraceFrame } from '$lib/quantum/run';
+import { firstFrame, Run, type QubitFrame, type TraceFrame } from '$lib/quantum/run';
 import { formatTurns, toTurns, toTurnsSigned, type Angle, type SignedAngle } from '$lib/quantum/angle';
 import { GateCode, gateAt, gateDisplayName, gateProvenance, qubitLabel, type CircuitDocument, type GateView, type LoweredCircuit } from '$lib/quantum/circuit';
 import { parseInputValue } from './inputs';
@@ -122,10 +122,14 @@ export function prepareIntents(doc: CircuitDocument, circuit: LoweredCircuit): O
 	return { intents, problems, intentSections };
 }
 
-function prepareCircuit(doc: CircuitDocument): PreparedCircuit {
+function prepareCircuit(doc: CircuitDocument, lowered?: (c: LoweredCircuit) => void): PreparedCircuit {
 	const key = JSON.stringify(doc);
-	if (lastPrepared?.key === key) return lastPrepared.value;
+	if (lastPrepared?.key === key) {
+		lowered?.(lastPrepared.value.circuit);
+		return lastPrepared.value;
+	}
 	const circuit = lowerCircuit(doc);
+	lowered?.(circuit);
 	const value = { circuit, ...prepareIntents(doc, circuit) };
 	lastPrepared = { key, value };
 	return value;
@@ -146,6 +150,9 @@ function statedCounts(ev: ExpectationEvents): RunSummary['stated'] {
 	return { angles, bits };
 }
 
+/** Where step 0 stands: before any gate. */
+const STEP_ZERO: PositionView = { step: 0, gateIndex: null, gateText: null, blockPath: [], itemId: null, loop: {}, source: null };
+
 export class EngineSession {
 	readonly circuit: LoweredCircuit;
 	readonly run: Run;
@@ -154,17 +161,29 @@ export class EngineSession {
 	readonly #resets = new Map<number, { qubit: number; p1: number }[]>();
 	private labels: string[];
 
-	constructor(req: Extract<WorkerRequest, { type: 'load' }>) {
+	/**
+	 * Lower and run `req`. With `preview`, step 0 is handed over as soon as the circuit is lowered,
+	 * before the specs are read and the run goes through every gate (the same frame as `frame(0)`
+	 * afterwards; engine.test.ts compares them).
+	 */
+	constructor(req: Extract<WorkerRequest, { type: 'load' }>, preview?: (frame: FrameView) => void) {
 		const t0 = Date.now();
-		const prepared = prepareCircuit(req.doc);
+		const inputsOf = (c: LoweredCircuit) => {
+			const values: Record<string, bigint> = {};
+			for (const r of c.registers) {
+				if (req.inputs.superposed.includes(r.name)) continue;
+				const raw = req.inputs.values[r.name];
+				if (raw !== undefined) values[r.name] = parseInputValue(raw, r.name, r.size);
+			}
+			return values;
+		};
+		const prepared = prepareCircuit(
+			req.doc,
+			preview && ((lowered) => preview(toFrameView(firstFrame(lowered, { values: inputsOf(lowered), superposed: req.inputs.superposed }, { keyframeInterval: req.keyframeInterval }), STEP_ZERO)))
+		);
 		this.circuit = prepared.circuit;
 		const c = this.circuit;
-		const values: Record<string, bigint> = {};
-		for (const r of c.registers) {
-			if (req.inputs.superposed.includes(r.name)) continue;
-			const raw = req.inputs.values[r.name];
-			if (raw !== undefined) values[r.name] = parseInputValue(raw, r.name, r.size);
-		}
+		const values = inputsOf(c);
 		const { intents, problems, intentSections } = prepared;
 		this.run = new Run(c, { values, superposed: req.inputs.superposed }, { keyframeInterval: req.keyframeInterval, intents, intentSections });
 		this.labels = [];
@@ -204,7 +223,7 @@ export class EngineSession {
 
 	position(step: number): PositionView {
 		const c = this.circuit;
-		if (step === 0 || c.gateCount === 0) return { step, gateIndex: null, gateText: null, blockPath: [], itemId: null, loop: {}, source: null };
+		if (step === 0 || c.gateCount === 0) return { ...STEP_ZERO, step };
 		const g = step - 1;
 		const p = gateProvenance(c, g);
 		const path: PositionView['blockPath'] = [];
@@ -406,11 +425,17 @@ export function runCheck(req: Extract<WorkerRequest, { type: 'check' }>, progres
 }
 
 /** Serve one request against the current session (the worker's message handler). */
-export function handleRequest(session: EngineSession | null, req: WorkerRequest, progress: (done: number, total: number) => void = () => {}): { session: EngineSession | null; response: WorkerResponse } {
+export function handleRequest(
+	session: EngineSession | null,
+	req: WorkerRequest,
+	progress: (done: number, total: number) => void = () => {},
+	/** Step 0 of a load, sent before the whole run is computed (see EngineSession). */
+	preview?: (frame: FrameView) => void
+): { session: EngineSession | null; response: WorkerResponse } {
 	try {
 		if (req.type === 'check') return { session, response: runCheck(req, progress) };
 		if (req.type === 'load') {
-			const s = new EngineSession(req);
+			const s = new EngineSession(req, preview);
 			return { session: s, response: { id: req.id, type: 'loaded', summary: s.summary, frame: s.frame(0) } };
 		}
 		if (!session) return { session, response: { id: req.id, type: 'error', message: 'Nothing is loaded yet.' } };

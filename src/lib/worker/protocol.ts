@@ -126,6 +126,8 @@ export type WorkerResponse =
 	| { id: number; type: 'seek'; step: number; reason: string | null; breakpointId: string | null }
 	| { id: number; type: 'gates'; gates: GateRow[]; truncated: boolean }
 	| { id: number; type: 'progress'; done: number; total: number }
+	/** Step 0 of a load, before the run through every gate is done (the 'loaded' answer follows). */
+	| { id: number; type: 'preview'; frame: FrameView }
 	| { id: number; type: 'checked'; report: CheckReport; millis: number; firstDivergences: (FailureDivergence | null)[] }
 	| { id: number; type: 'error'; message: string; path?: string };
 

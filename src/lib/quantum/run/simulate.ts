@@ -182,7 +182,7 @@ export function simulate(circuit: LoweredCircuit, inputs: RunInputs, options: Ru
 		}
 		if (!ledger && !amp) break;
 		checkEvents(step);
-		if (step === circuit.gateCount) break;
+		if (step === circuit.gateCount || step === options.untilStep) break;
 		if (circuit.kinds[step] === GateCode.reset) checkReset(step);
 		if (ledger) {
 			if (!applyLedgerGate(ledger, circuit, sim.ledgerTables, step, sim.contributions)) {

@@ -31,6 +31,8 @@ export interface RunOptions {
 	intents?: RegisterIntent[];
 	/** Fourier sections found from raw gates (imported files), in addition to QFT blocks. */
 	intentSections?: FourierSection[];
+	/** Simulate only up to this step (for {@link firstFrame}); a Run always goes to the end. */
+	untilStep?: number;
 }
 
 /** What one qubit holds in a frame. Angles in turns. */
