@@ -49,7 +49,7 @@ export class RunSession {
 		const wantsPreview = !this.summary && !this.frame && (atStep ?? 0) === 0;
 		try {
 			// Plain copies: postMessage cannot clone Svelte's reactive proxies.
-			const res = await this.#c().request({ type: 'load', doc: $state.snapshot(doc) as CircuitDocument, inputs: $state.snapshot(inputs) as RunRequestInputs }, undefined, (f) => {
+			const res = await this.#c().request({ type: 'load', doc: $state.snapshot(doc) as CircuitDocument, inputs: $state.snapshot(inputs) as RunRequestInputs, preview: wantsPreview }, undefined, (f) => {
 				if (wantsPreview && seq === this.#loadSeq) this.preview = f;
 			});
 			this.preview = null;
@@ -72,6 +72,11 @@ export class RunSession {
 		} finally {
 			if (seq === this.#loadSeq) this.loading = false;
 		}
+	}
+
+	/** The board has drawn `preview`: the worker may compute the run now (it waits for this, or a while). */
+	previewDrawn(preview: FrameView): void {
+		if (this.preview === preview) this.#client?.notify({ type: 'drawn' });
 	}
 
 	/** Stop a long load (the worker is replaced). */

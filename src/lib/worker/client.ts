@@ -44,6 +44,11 @@ export class EngineClient {
 		});
 	}
 
+	/** Tell the worker something that has no answer (the page drew a load's step 0). */
+	notify(body: Body<Extract<WorkerRequest, { type: 'drawn' }>>): void {
+		this.#worker?.postMessage({ ...body, id: 0 } as WorkerRequest);
+	}
+
 	get busy(): boolean {
 		return this.#pending.size > 0;
 	}

@@ -1,7 +1,7 @@
 import { readFileSync } from 'node:fs';
 import { importQasm } from '$lib/quantum/qasm/import';
 import { describe, expect, it } from 'vitest';
-import { EngineSession, handleRequest, parseInputValue, runCheck } from './engine';
+import { beginLoad, EngineSession, handleRequest, parseInputValue, runCheck } from './engine';
 import { makeTemplate, plantedFaultAdder, demoMultiplier, periodFindingUnreduced, TEMPLATE_NAMES } from '$lib/quantum/templates';
 import type { CircuitDocument } from '$lib/quantum/circuit';
 import type { FrameView } from './protocol';
@@ -186,6 +186,26 @@ describe('step 0 before the whole run (the preview the board draws first)', () =
 			}
 		}
 		expect(compared).toBeGreaterThan(40);
+	});
+
+	it('beginLoad (the worker\'s two-part load) sends step 0 at once and finish() gives the same answer as a whole load', () => {
+		const doc = makeTemplate('multiplier', '', 3);
+		const inputs = { values: { a: '5', b: '3' }, superposed: [] };
+		const previews: FrameView[] = [];
+		const begun = beginLoad({ id: 4, type: 'load', doc, inputs, preview: true }, (f) => previews.push(f));
+		expect(begun.previewed).toBe(true);
+		expect(previews).toHaveLength(1);
+		const out = begun.finish();
+		const whole = handleRequest(null, { id: 4, type: 'load', doc: structuredClone(doc), inputs });
+		expect(out.response).toEqual({ ...whole.response, summary: { ...(whole.response as { summary: object }).summary, millis: (out.response as { summary: { millis: number } }).summary.millis } });
+		if (out.response.type === 'loaded') expect(previews[0]).toEqual(out.response.frame);
+		// 5·3 = 15 on the 6-bit product (arithmetic)
+		expect(out.session!.frame(out.session!.summary.lastStep).registerValues.p).toBe('15');
+		// a bad input: nothing previewed, and finish() answers the error a load always gave
+		const bad = beginLoad({ id: 5, type: 'load', doc, inputs: { values: { a: '9' }, superposed: [] }, preview: true }, (f) => previews.push(f));
+		expect(bad.previewed).toBe(false);
+		expect(previews).toHaveLength(1);
+		expect(bad.finish().response).toMatchObject({ type: 'error', message: expect.stringMatching(/does not fit in 3 qubits/) });
 	});
 
 	it('a load that fails sends no preview when lowering fails, and the error as before', () => {

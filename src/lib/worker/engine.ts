@@ -15,7 +15,7 @@ import type { RegisterIntent } from '$lib/quantum/intent';
 import { ExpectKind, type ExpectationEvents } from '$lib/quantum/expect';
 import type { DialQubit } from '$lib/dials/dial-model';
 import { resetHolds } from '$lib/quantum/reset-claim';
-import type { BreakpointSpec, FailureDivergence, FrameView, GateRow, LedgerView, PositionView, RunSummary, SeekKind, WorkerRequest, WorkerResponse } from './protocol';
+import type { BreakpointSpec, FailureDivergence, FrameView, GateRow, LedgerView, PositionView, RunRequestInputs, RunSummary, SeekKind, WorkerRequest, WorkerResponse } from './protocol';
 
 /** Most ledger rows sent for one qubit; the view says when it was cut. */
 export const MAX_LEDGER_ROWS = 5000;
@@ -109,7 +109,7 @@ interface PreparedCircuit {
 
 // What depends on the document only (lowering, specs, the prover's section search) is kept for
 // the last document, so changing only the inputs does not lower and scan the circuit again.
-let lastPrepared: { key: string; value: PreparedCircuit } | null = null;
+let lastPrepared: { key: string; circuit: LoweredCircuit; intents: Omit<PreparedCircuit, 'circuit'> | null } | null = null;
 
 /**
  * The expectations a run checks against: the specs as register intents and, for circuits with no
@@ -122,17 +122,50 @@ export function prepareIntents(doc: CircuitDocument, circuit: LoweredCircuit): O
 	return { intents, problems, intentSections };
 }
 
-function prepareCircuit(doc: CircuitDocument, lowered?: (c: LoweredCircuit) => void): PreparedCircuit {
+/** The document lowered (kept for the last document). */
+function lowerCached(doc: CircuitDocument): NonNullable<typeof lastPrepared> {
 	const key = JSON.stringify(doc);
-	if (lastPrepared?.key === key) {
-		lowered?.(lastPrepared.value.circuit);
-		return lastPrepared.value;
+	if (lastPrepared?.key !== key) lastPrepared = { key, circuit: lowerCircuit(doc), intents: null };
+	return lastPrepared;
+}
+
+function prepareCircuit(doc: CircuitDocument): PreparedCircuit {
+	const entry = lowerCached(doc);
+	entry.intents ??= prepareIntents(doc, entry.circuit);
+	return { circuit: entry.circuit, ...entry.intents };
+}
+
+/** The register values of a load's inputs (superposed registers left out); throws on a bad value. */
+function inputValues(c: LoweredCircuit, inputs: RunRequestInputs): Record<string, bigint> {
+	const values: Record<string, bigint> = {};
+	for (const r of c.registers) {
+		if (inputs.superposed.includes(r.name)) continue;
+		const raw = inputs.values[r.name];
+		if (raw !== undefined) values[r.name] = parseInputValue(raw, r.name, r.size);
 	}
-	const circuit = lowerCircuit(doc);
-	lowered?.(circuit);
-	const value = { circuit, ...prepareIntents(doc, circuit) };
-	lastPrepared = { key, value };
-	return value;
+	return values;
+}
+
+/** Step 0 of a load from the lowered circuit alone (see firstFrame): the same view as frame(0) of the finished session. */
+function previewOf(c: LoweredCircuit, req: Extract<WorkerRequest, { type: 'load' }>): FrameView {
+	return toFrameView(firstFrame(c, { values: inputValues(c, req.inputs), superposed: req.inputs.superposed }, { keyframeInterval: req.keyframeInterval }), STEP_ZERO);
+}
+
+/**
+ * A load in two parts, for the worker: step 0 goes to `preview` now, and `finish()` computes the
+ * run (the worker calls it once the page has drawn step 0, so the two do not share the CPU).
+ * `previewed` is false when nothing was sent (the document or an input is wrong): then
+ * `finish()` answers the error at once, from the same work as ever.
+ */
+export function beginLoad(req: Extract<WorkerRequest, { type: 'load' }>, preview: (frame: FrameView) => void): { previewed: boolean; finish: () => { session: EngineSession | null; response: WorkerResponse } } {
+	let previewed = false;
+	try {
+		preview(previewOf(lowerCached(req.doc).circuit, req));
+		previewed = true;
+	} catch {
+		// finish() lowers again and answers this error as a load always has
+	}
+	return { previewed, finish: () => handleRequest(null, req) };
 }
 
 /**
@@ -168,22 +201,11 @@ export class EngineSession {
 	 */
 	constructor(req: Extract<WorkerRequest, { type: 'load' }>, preview?: (frame: FrameView) => void) {
 		const t0 = Date.now();
-		const inputsOf = (c: LoweredCircuit) => {
-			const values: Record<string, bigint> = {};
-			for (const r of c.registers) {
-				if (req.inputs.superposed.includes(r.name)) continue;
-				const raw = req.inputs.values[r.name];
-				if (raw !== undefined) values[r.name] = parseInputValue(raw, r.name, r.size);
-			}
-			return values;
-		};
-		const prepared = prepareCircuit(
-			req.doc,
-			preview && ((lowered) => preview(toFrameView(firstFrame(lowered, { values: inputsOf(lowered), superposed: req.inputs.superposed }, { keyframeInterval: req.keyframeInterval }), STEP_ZERO)))
-		);
+		if (preview) preview(previewOf(lowerCached(req.doc).circuit, req));
+		const prepared = prepareCircuit(req.doc);
 		this.circuit = prepared.circuit;
 		const c = this.circuit;
-		const values = inputsOf(c);
+		const values = inputValues(c, req.inputs);
 		const { intents, problems, intentSections } = prepared;
 		this.run = new Run(c, { values, superposed: req.inputs.superposed }, { keyframeInterval: req.keyframeInterval, intents, intentSections });
 		this.labels = [];
@@ -438,6 +460,7 @@ export function handleRequest(
 			const s = new EngineSession(req, preview);
 			return { session: s, response: { id: req.id, type: 'loaded', summary: s.summary, frame: s.frame(0) } };
 		}
+		if (req.type === 'drawn') return { session, response: { id: req.id, type: 'error', message: 'Nothing waits for a drawn board.' } };
 		if (!session) return { session, response: { id: req.id, type: 'error', message: 'Nothing is loaded yet.' } };
 		if (req.type === 'frame') return { session, response: { id: req.id, type: 'frame', frame: session.frame(req.step) } };
 		if (req.type === 'gates') return { session, response: { id: req.id, type: 'gates', ...session.gates(req.from, req.to) } };

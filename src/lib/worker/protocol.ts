@@ -22,7 +22,10 @@ export type BreakpointSpec =
 export type SeekKind = 'into' | 'back' | 'over' | 'out' | 'next-boundary' | 'prev-boundary' | 'divergence' | 'breakpoint' | 'start' | 'end';
 
 export type WorkerRequest =
-	| { id: number; type: 'load'; doc: CircuitDocument; inputs: RunRequestInputs; keyframeInterval?: number }
+	/** With `preview`, step 0 is sent first and the run is computed once the page says it drew it ('drawn'). */
+	| { id: number; type: 'load'; doc: CircuitDocument; inputs: RunRequestInputs; keyframeInterval?: number; preview?: boolean }
+	/** The page has drawn the preview of the last load: compute its run now (no answer of its own). */
+	| { id: number; type: 'drawn' }
 	| { id: number; type: 'frame'; step: number }
 	| { id: number; type: 'ledger'; qubit: number; step: number }
 	| { id: number; type: 'seek'; from: number; kind: SeekKind; breakpoints?: BreakpointSpec[] }
