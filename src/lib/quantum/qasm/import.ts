@@ -12,7 +12,7 @@
  * are kept exact (stored as `"k/2^m turn"`), everything else as a float in turns (`"~0.123"`).
  */
 import { lexQasmStream, QasmError, type TokenStream } from './lexer.js';
-import { MAX_BODY_ITEMS, type BodyItem } from '../circuit.js';
+import type { BodyItem } from '../circuit.js';
 import { documentWithBody } from './emit.js';
 import { recogniseIn, type PeepholeReport } from './peephole.js';
 import { applyRegisterMap, RegisterMapError, type RegisterMapEntry } from './register-map.js';
@@ -103,13 +103,12 @@ export function importQasm(text: string, options: QasmImportOptions = {}): QasmI
 		if (p.report.stoppedAtLimit) notes.push('recognition of decomposed gates stopped at its work limit; the rest of the file is read as written');
 	}
 	// A document holds at most MAX_BODY_ITEMS items: name the gate that crosses it (the schema would only say "body").
-	const items = bodyLength();
-	if (items > MAX_BODY_ITEMS) {
-		const at = r.emitter.originAt(itemFrom(MAX_BODY_ITEMS)).call;
+	if (bodyLength() > limits.maxItems) {
+		const at = r.emitter.originAt(itemFrom(limits.maxItems)).call;
 		throw new QasmError(
 			at.line,
 			at.column,
-			`more than ${MAX_BODY_ITEMS} top-level gates: a circuit holds at most ${MAX_BODY_ITEMS} items; write repeated parts as gate definitions, loops or broadcasts`,
+			`more than ${limits.maxItems} top-level gates: a circuit holds at most ${limits.maxItems} items; write repeated parts as gate definitions, loops or broadcasts`,
 			file
 		);
 	}

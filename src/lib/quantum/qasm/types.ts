@@ -4,7 +4,7 @@
  * (`emit.ts`) and the entry point (`import.ts`, which re-exports them).
  * Qubit order: q[0] of a register is its bit 0 (LSB); angles in the document are in turns.
  */
-import type { CircuitDocument, SourcePosition } from '../circuit.js';
+import { MAX_BODY_ITEMS, type CircuitDocument, type SourcePosition } from '../circuit.js';
 import type { PeepholeReport } from './peephole.js';
 
 /** A non-fatal note about the file (skipped statement, lenient reading), with its position. */
@@ -29,10 +29,12 @@ export interface QasmLimits {
 	maxDepth: number;
 	/** Gate-definition calls after expansion (a call that makes no gate still costs work). */
 	maxCalls: number;
+	/** Top-level items of the document (default MAX_BODY_ITEMS, all a document holds; the import bench raises it to read a larger file). */
+	maxItems: number;
 }
 
-/** Default bounds: 1024 qubits, 1 000 000 gates after expansion, 4 MB of text, gate calls nested 64 deep, 200 000 expanded calls. */
-export const DEFAULT_QASM_LIMITS: QasmLimits = { maxQubits: 1024, maxGates: 1_000_000, maxBytes: 4_000_000, maxDepth: 64, maxCalls: 200_000 };
+/** Default bounds: 1024 qubits, 1 000 000 gates after expansion, 4 MB of text, gate calls nested 64 deep, 200 000 expanded calls, 100 000 top-level items. */
+export const DEFAULT_QASM_LIMITS: QasmLimits = { maxQubits: 1024, maxGates: 1_000_000, maxBytes: 4_000_000, maxDepth: 64, maxCalls: 200_000, maxItems: MAX_BODY_ITEMS };
 
 /** Options of {@link importQasm}. */
 export interface QasmImportOptions {
