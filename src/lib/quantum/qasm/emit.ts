@@ -49,6 +49,9 @@ export function documentWithBody(head: Omit<CircuitDocument, 'body' | 'blocks'>,
 	return doc;
 }
 
+/** The definitions of a fast-path gate's origin: none (one frozen list shared by all). */
+const NO_DEFINITIONS: GateOrigin['definitions'] = Object.freeze([]) as unknown as GateOrigin['definitions'];
+
 /**
  * Ints kept per entry, in one array: for a fast-path gate the reader's code for its call (which
  * names the document gate and the OpenQASM name), qubit list, angle (−1 none), line, column and
@@ -258,7 +261,7 @@ export class GateEmitter {
 	/** The origin of entry i: the call's for an item made from the start; for a fast-path gate its OpenQASM name, the item's source and no definitions. */
 	originAt(i: number): GateOrigin {
 		const o = this.cols[i * STRIDE + OBJ];
-		return o >= 0 ? this.objectOrigins[o] : { qasm: this.qasmNames[this.cols[i * STRIDE]], call: this.itemAt(i).source!, definitions: [] };
+		return o >= 0 ? this.objectOrigins[o] : { qasm: this.qasmNames[this.cols[i * STRIDE]], call: this.itemAt(i).source!, definitions: NO_DEFINITIONS };
 	}
 
 	/** Per entry its origin, made on first use (a large file's reader makes none for plain gates until asked). */
