@@ -3,7 +3,7 @@
 //
 // Angles are in turns; a dial's 0 is at twelve o'clock and angles grow clockwise, as a
 // reader expects of a dial (the direction is stated in the board's legend).
-import { Application, BitmapText, Circle, Container, Graphics, GraphicsContext, Text, type FederatedPointerEvent } from 'pixi.js';
+import { Application, BitmapText, Circle, Container, extensions, ExtensionType, GlLimitsSystem, Graphics, GraphicsContext, Text, type FederatedPointerEvent } from 'pixi.js';
 // The pages' content security policy has no 'unsafe-eval': this swaps pixi's generated shader
 // and uniform code (new Function) for prebuilt functions. Imported after pixi.js, before any Application.
 import 'pixi.js/unsafe-eval';
@@ -16,6 +16,23 @@ import {
 	type DialLayout,
 	type DialQubit
 } from '$lib/dials/dial-model';
+
+/**
+ * Batches of at most 4 textures (the board draws with two or three: the faces' cache and the
+ * labels' glyphs). pixi's batch programs then choose among 4 texture slots, not 16, and software
+ * WebGL compiles them much faster: the first frame waited about 0.25 s for them. The pixels are
+ * the same; a frame with more textures at once would only take more draw calls.
+ */
+class DialLimits extends GlLimitsSystem {
+	static extension = { type: [ExtensionType.WebGLSystem], name: 'limits' } as const;
+	contextChange(): void {
+		super.contextChange();
+		this.maxBatchableTextures = Math.min(this.maxBatchableTextures, 4);
+	}
+}
+// Before the first renderer: the first system named 'limits' is the one renderers use.
+extensions.remove(GlLimitsSystem);
+extensions.add(DialLimits);
 
 const C = {
 	background: 0x151a24,
