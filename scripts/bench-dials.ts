@@ -109,7 +109,7 @@ try {
 		const load = loadavg()[0].toFixed(1);
 		console.log(`bench workbench first render, 16-bit multiplier (5,408 gates, 64 qubits), time to first dials: median ${times[2].toFixed(0)} ms of 5 warm loads (min ${times[0].toFixed(0)}, max ${times[4].toFixed(0)}; cold first load ${cold.toFixed(0)} ms; software WebGL; load average ${load} on 2 cores; aim 1,500 ms)`);
 		console.log(`bench workbench first render, 16-bit multiplier, whole run loaded and drawn (summary line filled): median ${loaded[2].toFixed(0)} ms of the same 5 warm loads (min ${loaded[0].toFixed(0)}, max ${loaded[4].toFixed(0)})`);
-		console.log('bench workbench first render, reference (2 Dec 2026, DEVELOPERS.md "Time to first dials"): before the start-up changes a median 3,766 ms against 2,951 ms after, 7 warm loads each interleaved in one run; the earlier 7,945 ms was measured with the 1,024-dial page still playing');
+		console.log('bench workbench first render, reference (2 Dec 2026, DEVELOPERS.md "Time to first dials"): the build before step 0 first, the specs reader and 4-texture batches against the build with them, 9 warm loads each interleaved in one run at load average 3.2 to 3.7: first dials 1,511 → 1,097 ms, whole run 1,511 → 1,527 ms');
 		await wbPage.close();
 	}
 	await browser.close();
