@@ -135,11 +135,23 @@ export const checkBenches: CheckBench[] = [
 	{
 		name: 'qasm-import',
 		run: () => {
-			const text = exportQasm(lowerCircuit(multiplier(16, 'no-ancilla')), { version: 3 });
-			const t0 = performance.now();
-			const r = importQasm(text);
-			const s = (performance.now() - t0) / 1000;
-			return [{ name: `OpenQASM 3 import (${r.document.body.length} gates, ${(text.length / 1e6).toFixed(1)} MB)`, value: Math.round(r.document.body.length / s), unit: 'gates/s' }];
+			// The 16-bit multiplier as this project exports it (every doubly controlled phase written
+			// out with controlled phases and CNOTs), read back: the file's gates are what is read; the
+			// recogniser turns each written-out ccp back into one gate, so the document holds fewer.
+			const lowered = lowerCircuit(multiplier(16, 'no-ancilla'));
+			const text = exportQasm(lowered, { version: 3 });
+			const time = () => {
+				const t0 = performance.now();
+				const r = importQasm(text);
+				return { ms: performance.now() - t0, items: r.document.body.length };
+			};
+			const cold = time();
+			const warm = [time(), time(), time(), time(), time()].map((x) => x.ms).sort((a, b) => a - b)[2];
+			const label = `OpenQASM 3 import of an exported 16-bit multiplier (${lowered.gateCount} gates in ${(text.length / 1e3).toFixed(0)} kB, ${cold.items} items after recognition)`;
+			return [
+				{ name: `${label}, first import in the process`, value: Math.round(lowered.gateCount / (cold.ms / 1000)), unit: 'gates/s' },
+				{ name: `${label}, median of 5 after it`, value: Math.round(lowered.gateCount / (warm / 1000)), unit: 'gates/s' }
+			];
 		}
 	}
 ];
