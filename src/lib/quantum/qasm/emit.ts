@@ -36,13 +36,22 @@ export interface EmitHost {
  */
 export function documentWithBody(head: Omit<CircuitDocument, 'body' | 'blocks'>, blocks: UserBlock[] | undefined, make: () => BodyItem[]): CircuitDocument {
 	let body: BodyItem[] | undefined;
+	// Dropped once used: until then the document keeps what makes its body (the reader) alive.
+	let maker: (() => BodyItem[]) | null = make;
 	const doc = { ...head } as CircuitDocument;
 	Object.defineProperty(doc, 'body', {
 		enumerable: true,
 		configurable: true,
-		get: () => (body ??= make()),
+		get: () => {
+			if (body === undefined) {
+				body = maker!();
+				maker = null;
+			}
+			return body;
+		},
 		set: (v: BodyItem[]) => {
 			body = v;
+			maker = null;
 		}
 	});
 	if (blocks !== undefined) doc.blocks = blocks;
