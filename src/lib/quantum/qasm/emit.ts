@@ -73,12 +73,12 @@ const OBJ = 6;
 /**
  * Collects the document's body entries and, per entry, its origin.
  *
- * A gate from the reader's fast path (most of a large file) is kept as eight ints (see `STRIDE`)
+ * A gate from the reader's fast path (most of a large file) is kept as seven ints (see `STRIDE`)
  * and its item is made only when the body is read: making one object per gate and keeping it
  * alive was most of a large import's time (allocation and the collector), and readers such as
  * the upload form's register preview and the decomposition search need no items. Every other
- * gate or call is an item from the start. {@link itemAt} and {@link items} make the same item the
- * fast path made before (same keys in the same order), once.
+ * gate or call is an item from the start. {@link items} makes the same items the fast path made
+ * before (same keys in the same order), once; {@link itemAt} makes one that is not made yet.
  */
 export class GateEmitter {
 	/** Entries so far. */
@@ -89,14 +89,13 @@ export class GateEmitter {
 	private readonly objectOrigins: GateOrigin[] = [];
 	/** The body's items once made (a prefix of the entries; see {@link items}). */
 	private made: BodyItem[] = [];
-	/** Fast-path items made one at a time before the whole body was. */
-	private readonly madeOne = new Map<number, BodyItem>();
 	/** By the reader's call code: the document gate and the OpenQASM name (a fast-path gate's origin is the name, the item's source, no definitions). */
 	private readonly gateNames: GateItem['gate'][] = [];
 	private readonly qasmNames: string[] = [];
 	/** Qubit lists of fast-path gates, shared by every gate on the same qubits in the same order (treat as immutable). */
 	private readonly lists: QubitRef[][] = [];
 	private readonly listIds = new Map<number, number>();
+	/** Angle texts by number, and the number of each angle value met (exported files repeat a few, and the reader hands out the same Num for each). */
 	private readonly angleList: string[] = [];
 	private readonly angleIds = new Map<Num, number>();
 	private originsMade: GateOrigin[] | null = null;
@@ -106,7 +105,6 @@ export class GateEmitter {
 	/** Blocks made for broadcasts (`h q;` over a register stays one call item), by content. */
 	readonly broadcastBlocks: UserBlock[] = [];
 	private readonly broadcastByKey = new Map<string, UserBlock>();
-	private readonly angleTexts = new Map<Num, string>();
 
 	/**
 	 * `flatToRef[q]` names flat qubit q; the reader appends to it as registers are declared.
@@ -133,17 +131,11 @@ export class GateEmitter {
 		return made;
 	}
 
-	/** Item i of the body (made on first read). */
+	/** Item i of the body: the one made, or for a fast-path gate not made yet, a new one (equal to the one {@link items} makes). */
 	itemAt(i: number): BodyItem {
 		if (i < this.made.length) return this.made[i];
 		const o = this.cols[i * STRIDE + OBJ];
-		if (o >= 0) return this.objects[o];
-		let item = this.madeOne.get(i);
-		if (item === undefined) {
-			item = this.makeFast(i);
-			if (this.made.length === 0) this.madeOne.set(i, item);
-		}
-		return item;
+		return o >= 0 ? this.objects[o] : this.makeFast(i);
 	}
 
 	/**
@@ -173,7 +165,7 @@ export class GateEmitter {
 		const id = `g${c[k + 5]}`;
 		const gate = this.gateNames[c[k]];
 		const qubits = this.lists[c[k + 1]];
-		const source = { line: c[k + 3], column: c[k + 4] };
+		const source = this.sourceAt(i);
 		const a = c[k + 2];
 		return a < 0 ? { id, type: 'gate', gate, qubits, source } : { id, type: 'gate', gate, qubits, source, angle: this.angleList[a] };
 	}
@@ -204,7 +196,6 @@ export class GateEmitter {
 		this.objects.length = first;
 		this.objectOrigins.length = first;
 		if (this.made.length > start) this.made.length = start;
-		for (const i of [...this.madeOne.keys()]) if (i >= start) this.madeOne.delete(i);
 		this.count = start;
 	}
 
@@ -245,13 +236,7 @@ export class GateEmitter {
 		let a = -1;
 		if (param !== null && param.angleId >= 0) a = param.angleId;
 		else if (angle !== undefined) {
-			a = this.angleIds.get(angle) ?? -1;
-			if (a < 0) {
-				a = this.angleList.length;
-				this.angleList.push(this.angleTextOf(angle));
-				// Exported files repeat a few angles, and the reader hands out the same Num for each.
-				if (this.angleIds.size < 10_000) this.angleIds.set(angle, a);
-			}
+			a = this.angleId(angle);
 			if (param !== null) param.angleId = a;
 		}
 		const c = this.cols;
@@ -270,7 +255,12 @@ export class GateEmitter {
 	/** The origin of entry i: the call's for an item made from the start; for a fast-path gate its OpenQASM name, the item's source and no definitions. */
 	originAt(i: number): GateOrigin {
 		const o = this.cols[i * STRIDE + OBJ];
-		return o >= 0 ? this.objectOrigins[o] : { qasm: this.qasmNames[this.cols[i * STRIDE]], call: this.itemAt(i).source!, definitions: NO_DEFINITIONS };
+		return o >= 0 ? this.objectOrigins[o] : { qasm: this.qasmNames[this.cols[i * STRIDE]], call: i < this.made.length ? this.made[i].source! : this.sourceAt(i), definitions: NO_DEFINITIONS };
+	}
+
+	/** A fast-path gate's source position. */
+	private sourceAt(i: number): { line: number; column: number } {
+		return { line: this.cols[i * STRIDE + 3], column: this.cols[i * STRIDE + 4] };
 	}
 
 	/** Per entry its origin, made on first use (a large file's reader makes none for plain gates until asked). */
@@ -305,14 +295,18 @@ export class GateEmitter {
 		return this.lists.length - 1;
 	}
 
-	private angleTextOf(angle: Num): string {
-		// Exported files repeat a few angles, and the reader hands out the same Num for each.
-		let text = this.angleTexts.get(angle);
-		if (text === undefined) {
-			text = angleText(numToAngle(angle));
-			if (this.angleTexts.size < 10_000) this.angleTexts.set(angle, text);
+	/** The number of an angle's text in `angleList` (made on first meeting the value). */
+	private angleId(angle: Num): number {
+		let a = this.angleIds.get(angle);
+		if (a === undefined) {
+			a = this.angleList.length;
+			this.angleList.push(angleText(numToAngle(angle)));
+			if (this.angleIds.size < 10_000) this.angleIds.set(angle, a);
 		}
-		return text;
+		return a;
+	}
+	private angleTextOf(angle: Num): string {
+		return this.angleList[this.angleId(angle)];
 	}
 
 	/**
