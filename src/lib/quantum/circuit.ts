@@ -462,10 +462,10 @@ export interface LoweringLimits {
 	maxCalls: number;
 }
 
-/** Default limits: 4096 qubits, 8 million lowered gates, 100 000 expanded block calls. */
 /** Most items a document's body holds (the schema's bound; the importer names the line that crosses it). */
 export const MAX_BODY_ITEMS = 100_000;
 
+/** Default limits: 4096 qubits, 8 million lowered gates, 100 000 expanded block calls. */
 export const DEFAULT_LIMITS: LoweringLimits = { maxQubits: 4096, maxGates: 8_000_000, maxCalls: 100_000 };
 
 /** Read gate `index` of a lowered circuit as a {@link GateView} (flat qubits, angle in turns). */
