@@ -12,7 +12,6 @@
  * are kept exact (stored as `"k/2^m turn"`), everything else as a float in turns (`"~0.123"`).
  */
 import { lexQasmStream, QasmError, type TokenStream } from './lexer.js';
-import type { BodyItem } from '../circuit.js';
 import { documentWithBody } from './emit.js';
 import { recogniseIn, type PeepholeReport } from './peephole.js';
 import { applyRegisterMap, RegisterMapError, type RegisterMapEntry } from './register-map.js';
@@ -69,29 +68,20 @@ export function importQasm(text: string, options: QasmImportOptions = {}): QasmI
 	if (d.exact) notes.push(`${d.exact} printed angle${d.exact === 1 ? '' : 's'} read as exact k/2^m turn (largest difference ${d.largestDifferenceRadians.toExponential(2)} rad)`);
 	if (d.inexact) notes.push(`${d.inexact} printed angle${d.inexact === 1 ? '' : 's'} fit no k/2^m turn${r.exactDecimals ? '' : ' (exact reading of decimals is off)'} and stay inexact`);
 	let decompositions: PeepholeReport | undefined;
-	// The body's length, and the reader's entry item k came from (the recogniser may rewrite the body).
-	let bodyLength = () => r.emitter.length;
-	let itemFrom = (k: number) => k;
+	// The body's length, and per item the reader's entry it came from when the recogniser rewrote the body.
+	let bodyLength = r.emitter.length;
+	let from: Int32Array | null = null;
 	if (options.recogniseDecompositions ?? true) {
 		// Read in place: the emitter's columns, no items made (see GateEmitter).
 		const p = recogniseIn(r.emitter, document.registers);
 		decompositions = p.report;
 		if (p.report.regions || p.report.toffolis || p.report.toffoliPhases || p.report.cancelledPairs) {
 			// Made when read, like the reader's (the old body is not read here).
-			const d0 = document;
-			document = documentWithBody(
-				{ format: d0.format, version: d0.version, title: d0.title, registers: d0.registers },
-				d0.blocks,
-				() => {
-					const body: BodyItem[] = new Array(p.length);
-					for (let k = 0; k < p.length; k++) body[k] = p.itemAt(k);
-					return body;
-				}
-			);
-			const from = p.from;
-			bodyLength = () => p.length;
-			itemFrom = (k) => from[k];
-			origins = () => Array.from(from, (i) => r.emitter.originAt(i));
+			const { format, version, title, registers, blocks } = document;
+			document = documentWithBody({ format, version, title, registers }, blocks, () => p.items());
+			from = p.from;
+			bodyLength = p.length;
+			origins = () => Array.from(p.from, (i) => r.emitter.originAt(i));
 			const parts: string[] = [];
 			if (p.report.regions) parts.push(`${p.report.regions} CNOT region${p.report.regions === 1 ? '' : 's'} read as diagonal phase gates`);
 			if (p.report.toffolis) parts.push(`${p.report.toffolis} Toffoli network${p.report.toffolis === 1 ? '' : 's'} read as ccx`);
@@ -103,8 +93,8 @@ export function importQasm(text: string, options: QasmImportOptions = {}): QasmI
 		if (p.report.stoppedAtLimit) notes.push('recognition of decomposed gates stopped at its work limit; the rest of the file is read as written');
 	}
 	// A document holds at most MAX_BODY_ITEMS items: name the gate that crosses it (the schema would only say "body").
-	if (bodyLength() > limits.maxItems) {
-		const at = r.emitter.originAt(itemFrom(limits.maxItems)).call;
+	if (bodyLength > limits.maxItems) {
+		const at = r.emitter.originAt(from ? from[limits.maxItems] : limits.maxItems).call;
 		throw new QasmError(
 			at.line,
 			at.column,

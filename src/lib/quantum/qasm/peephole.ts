@@ -63,10 +63,11 @@ export interface PeepholeResult {
 	report: PeepholeReport;
 }
 
-/** Result read in place: the new body's length, its item k (made when asked; unchanged items are the view's) and per item the index of the old one it came from. */
+/** Result read in place: the new body's length, its items (made when asked; unchanged items are the view's) and per item the index of the old one it came from. */
 export interface PeepholeView {
 	length: number;
-	itemAt(k: number): BodyItem;
+	/** Every item of the new body, in order. */
+	items(): BodyItem[];
 	from: Int32Array;
 	report: PeepholeReport;
 }
@@ -185,9 +186,7 @@ const NO_QUBITS: number[] = [];
  */
 export function recogniseDecompositions(doc: CircuitDocument, options: PeepholeOptions = {}): PeepholeResult {
 	const v = recogniseIn(viewOf(doc.body), doc.registers, options);
-	const body: BodyItem[] = new Array(v.length);
-	for (let k = 0; k < v.length; k++) body[k] = v.itemAt(k);
-	return { body, from: Array.from(v.from), report: v.report };
+	return { body: v.items(), from: Array.from(v.from), report: v.report };
 }
 
 /** {@link recogniseDecompositions} on a body read in place (see {@link BodyView}); the new body is made only when read. */
@@ -352,7 +351,7 @@ export function recogniseIn(view: BodyView, registers: CircuitDocument['register
 		order[o] = out[k];
 		from[o++] = outFrom[k];
 	}
-	return { length: order.length, itemAt: (k) => G.item(order[k]), from, report };
+	return { length: order.length, items: () => Array.from(order, (g) => G.item(g)), from, report };
 }
 
 /** Whether two short qubit lists share a qubit (plain loops: this runs for every pair tried). */
