@@ -250,6 +250,13 @@ describe('constructs', () => {
 		expect(at(32)).toEqual([['mcp', '1/2^1 turn']]);
 		expect(() => lowerCircuit(r.document)).not.toThrow();
 	});
+	it('measurements after the warning limit (1000) change no other warning', () => {
+		// 1000 non-const declarations fill the warnings; the measurements after them have no warning of their own to update.
+		const decls = Array.from({ length: 1000 }, (_, k) => `float x${k} = 0.5;`).join('\n');
+		const r = importQasm(`OPENQASM 3.0;\ninclude "stdgates.inc";\nqubit[1] q;\nbit[1] c;\n${decls}\nc[0] = measure q[0];\nc[0] = measure q[0];\n`, { file: 'many.qasm3' });
+		expect(r.warnings).toHaveLength(1000);
+		expect(r.warnings[999].message).toBe('"x999" is read as a constant (it is never reassigned here)');
+	});
 	it('the adder written in OpenQASM 2 and in OpenQASM 3 lowers to the same gates', () => {
 		const a = lowerCircuit(importQasm(fixture('adder3.qasm')).document);
 		const b = lowerCircuit(importQasm(fixture('adder3.qasm3')).document);

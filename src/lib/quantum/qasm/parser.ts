@@ -835,7 +835,7 @@ export class Reader {
 				this.err(t, 'opaque gates have no definition to simulate; define the gate with "gate" instead');
 			// falls through
 			case 'measure':
-				this.skipStatement(t, MEASURE_SKIPPED);
+				this.skipMeasurement(t);
 				return;
 			case 'reset':
 				return this.resetStatement();
@@ -867,7 +867,7 @@ export class Reader {
 		}
 		if (this.version === 3 && UNSUPPORTED_3.has(t.text)) this.err(t, `"${t.text}" is not supported; expected gates, gate definitions, registers and const values`);
 		if (this.cregs.has(t.text) && (this.isP('=', 1) || this.isP('[', 1))) {
-			this.skipStatement(t, MEASURE_SKIPPED, true);
+			this.skipMeasurement(t, true);
 			return;
 		}
 		const call = this.gateCall(null);
@@ -894,7 +894,8 @@ export class Reader {
 		}
 	}
 
-	private skipStatement(t: Token, message: string, mustMeasure = false): void {
+	/** Skip a measurement statement (or an assignment from one, `mustMeasure`) to its ";" and note it. */
+	private skipMeasurement(t: Token, mustMeasure = false): void {
 		let sawMeasure = false;
 		while (!this.isP(';')) {
 			const x = this.next();
@@ -907,20 +908,29 @@ export class Reader {
 		}
 		if (mustMeasure && !sawMeasure) this.err(t, `assignment to "${t.text}" is not supported; only measurement results may be assigned`);
 		this.next();
-		if (message === MEASURE_SKIPPED && this.measures) {
-			// One warning for every measure of the file (exporters write one per bit), at the first.
-			const m = this.measures;
-			m.count++;
-			m.first = Math.min(m.first, t.line);
-			m.last = Math.max(m.last, t.line);
-			m.warning.message = `${MEASURE_SKIPPED} (${m.count} measurements skipped in all, lines ${m.first}–${m.last})`;
+		this.measureSkipped(t);
+	}
+	/**
+	 * A skipped measurement: one warning for all of the file's (exporters write one per bit), at
+	 * the first, counting them and giving their lines (none when the warnings were full by then).
+	 */
+	private measureSkipped(t: Token): void {
+		const m = this.measures;
+		if (m === null) {
+			const before = this.warnings.length;
+			this.warn(t, MEASURE_SKIPPED);
+			if (this.warnings.length > before) this.measures = { warning: this.warnings[before], count: 1, first: t.line, last: t.line };
+			else this.measures = false;
 			return;
 		}
-		this.warn(t, message);
-		if (message === MEASURE_SKIPPED && this.warnings.length) this.measures = { warning: this.warnings[this.warnings.length - 1], count: 1, first: t.line, last: t.line };
+		if (m === false) return;
+		m.count++;
+		m.first = Math.min(m.first, t.line);
+		m.last = Math.max(m.last, t.line);
+		m.warning.message = `${MEASURE_SKIPPED} (${m.count} measurements skipped in all, lines ${m.first}–${m.last})`;
 	}
-	/** The one warning for the file's measurements, how many it stands for and their lines. */
-	private measures: { warning: QasmWarning; count: number; first: number; last: number } | null = null;
+	/** The one warning for the file's measurements, how many it stands for and their lines (false: there is none, the warnings were full). */
+	private measures: { warning: QasmWarning; count: number; first: number; last: number } | false | null = null;
 
 	private include(): void {
 		const kw = this.next();
@@ -995,7 +1005,7 @@ export class Reader {
 		const nameTok = this.expectIdent('a register name');
 		this.declareBits(nameTok);
 		if (this.isP('=')) {
-			this.skipStatement(kw, MEASURE_SKIPPED, true);
+			this.skipMeasurement(kw, true);
 			return;
 		}
 		this.expectP(';', `the declaration of "${nameTok.text}"`);
