@@ -10,7 +10,7 @@ import type { IntPoly } from '../spec.js';
 import { compareSection, requiredValue } from './compare.js';
 import { anfToPoly, anfXorProduct, Mismatch, Outside, polyTimes } from './poly.js';
 import { findSegment, laterHadamardOn, layoutName, probeSegment } from './sections.js';
-import { addGlobal, addPhase, anfOf, settleFlips, lineOf, qname, termName, valueOf, type FourierQubit, type PhaseTerm, type Prover } from './state.js';
+import { addGlobal, addPhase, anfOf, lineOf, qname, termName, valueOf, type FourierQubit, type PhaseTerm, type Prover } from './state.js';
 
 /** A QFT on r from gate g: each qubit j of level m starts with phase value/2^m. Returns true when the QFT itself is wrong (refuted). */
 export function enterSection(p: Prover, g: number, r: PlacedRegister): boolean {
@@ -38,7 +38,6 @@ export function leaveSection(p: Prover, g: number, r: PlacedRegister): boolean {
 	const sec = [...p.sections].reverse().find((x) => x.register === r.name && x.iqftGates[0] < 0);
 	checkLevelsAndMasks(p, g, r, levels);
 	const last = !laterHadamardOn(p.c, r, seg[seg.length - 1] + 1);
-	for (let j = 0; j < r.size; j++) settleFlips(p, p.state[r.offset + j] as FourierQubit, g);
 	const want = requiredValue(p, r, levels, last, sec, g);
 	compareSection(p, r, want);
 	if (sec) sec.iqftGates = [seg[0], seg[seg.length - 1]];

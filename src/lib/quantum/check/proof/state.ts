@@ -6,7 +6,7 @@
  */
 import { addAngles, dyadic, formatTurns, isZeroSigned, negateAngle, reduceSigned, scaleAngle, subtractAngles, type Angle } from '../../angle.js';
 import { gateProvenance, qubitLabel, type LoweredCircuit, type PlacedRegister } from '../../circuit.js';
-import { mulKeys, type IntPoly } from '../spec.js';
+import type { IntPoly } from '../spec.js';
 import type { ProofGoal, RegisterMismatch, SectionInfo, WrongTerm } from '../proof.js';
 import { anfToPoly, MAX_POLY_TERMS, oneMinusTwice, Outside, polyTimes, productOf, type Anf } from './poly.js';
 
@@ -81,9 +81,10 @@ export function addGlobal(p: Prover, poly: IntPoly, theta: Angle, g: number, sca
  * kᵢ = cᵢ·(1 − 2·mᵢ) and Sᵢ the stored phase then (the sum of the increments sⱼ made before it).
  * Summed over the flips that is Σⱼ sⱼ·(W − Wⱼ), where W = Σ kᵢ and Wⱼ is that sum when sⱼ was
  * made. For bits kᵢ = mᵢ₊₁ − mᵢ, so W telescopes to the mask's own polynomial: nothing to keep.
- * Each increment pays −sⱼ·mask now, and {@link settleFlips} pays mask·S at the inverse QFT (0
- * unless the qubit is still flipped there, which the inverse QFT refutes anyway). So a flip costs
- * nothing, not the whole phase polynomial (the quarter-angle lowering flips product qubits often).
+ * Each increment pays −sⱼ·mask now; what is left, mask·S at the inverse QFT, is 0 unless the
+ * qubit is still flipped there, and then the inverse QFT refutes the section on its value
+ * (`checkLevelsAndMasks`) before any phase is compared. So a flip costs nothing, not the whole
+ * phase polynomial (the quarter-angle lowering flips product qubits often).
  */
 export function addPhase(p: Prover, f: FourierQubit, theta: Angle, factors: Anf[], g: number): void {
 	let poly = productOf(factors, g);
@@ -104,24 +105,6 @@ export function addPhase(p: Prover, f: FourierQubit, theta: Angle, factors: Anf[
 		} else f.phase.set(k, { angle: a, from: [[g, a]] });
 	}
 	if (f.phase.size > MAX_POLY_TERMS) throw new Outside('a phase polynomial grew beyond 4 million terms', g);
-}
-
-/** At the inverse QFT: the whole-state phase a still-flipped qubit owes, mask·S (see {@link addPhase}). */
-export function settleFlips(p: Prover, f: FourierQubit, g: number): void {
-	if (!f.mask.size || p.goal.ignorePhase) return;
-	const m = anfToPoly(f.mask, g);
-	const last = Math.max(g, ...[...f.mask.values()].flat());
-	for (const [key, term] of f.phase) {
-		if (!term.angle.exact) throw new Outside(`${f.reg}'s Fourier qubit is still flipped at the inverse QFT (gate ${g}) and its phase is inexact`, g);
-		const shifted: IntPoly = new Map();
-		for (const [kk, v] of m) {
-			const k = mulKeys(kk, key);
-			const x = (shifted.get(k) ?? 0n) + v;
-			if (x === 0n) shifted.delete(k);
-			else shifted.set(k, x);
-		}
-		addGlobal(p, shifted, term.angle, last);
-	}
 }
 
 /** Register value as an integer polynomial, from classical bits or a verified section value. */
