@@ -116,4 +116,9 @@ describe('readSpecExpression (spec-reader.ts) against mathjs 15 parse', () => {
 		expect(() => parseSpec('p = a*q', regs)).toThrow('spec "p = a*q", column 7: unknown register "q" on the right side');
 		expect(() => parseSpec('p = a*', regs)).toThrow(/column \d+: expression does not parse/);
 	});
+	it('a very long chain of ^ is refused by the reader (left to mathjs, which words the error), never a stack overflow', () => {
+		const chain = 'a' + '^a'.repeat(10_000);
+		expect(readSpecExpression(chain)).toBeNull();
+		expect(() => parseSpec(`p = ${chain}`, [{ name: 'a', size: 4 }, { name: 'p', size: 8 }])).toThrow(SpecError);
+	});
 });

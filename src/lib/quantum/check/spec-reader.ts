@@ -96,22 +96,17 @@ export function readSpecExpression(src: string): ReadNode | null {
 	};
 	// mathjs: parseAddSubtract → parseMultiplyDivideModulus → (implicit products, refused here) →
 	// parseUnary → parsePow → primary.
-	const addSubtract = (): ReadNode => {
-		let node = multiplyDivide();
-		for (let o = binaryAt(peek(), 'add'); o; o = binaryAt(peek(), 'add')) {
+	/** Left-associative operators of one level, over operands of the next. */
+	const leftChain = (level: 'add' | 'multiply', operand: () => ReadNode): ReadNode => {
+		let node = operand();
+		for (let o = binaryAt(peek(), level); o; o = binaryAt(peek(), level)) {
 			at++;
-			node = op(o, BINARY[o], [node, multiplyDivide()]);
+			node = op(o, BINARY[o], [node, operand()]);
 		}
 		return node;
 	};
-	const multiplyDivide = (): ReadNode => {
-		let node = unary();
-		for (let o = binaryAt(peek(), 'multiply'); o; o = binaryAt(peek(), 'multiply')) {
-			at++;
-			node = op(o, BINARY[o], [node, unary()]);
-		}
-		return node;
-	};
+	const addSubtract = (): ReadNode => leftChain('add', multiplyDivide);
+	const multiplyDivide = (): ReadNode => leftChain('multiply', unary);
 	const unary = (): ReadNode => {
 		const t = peek();
 		if (t && t.kind === 'op' && (t.text === '-' || t.text === '+')) {
@@ -126,8 +121,12 @@ export function readSpecExpression(src: string): ReadNode | null {
 	const pow = (): ReadNode => {
 		const node = primary();
 		if (isOp(peek(), '^')) {
+			// a ^ chain nests to the right, like parentheses: bounded the same way
+			if (++depth > MAX_DEPTH) throw new NotThisForm();
 			at++;
-			return op('^', 'pow', [node, unary()]);
+			const exponent = unary();
+			depth--;
+			return op('^', 'pow', [node, exponent]);
 		}
 		return node;
 	};
