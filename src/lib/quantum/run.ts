@@ -158,7 +158,6 @@ export class Run {
 	}
 }
 
-/** Ledger global phase of the final state (turns), when the run stayed on the ledger. */
 /** The frame at `step` of a simulation that reached it (a Run's frameAt without the step check). */
 function frameOf(sim: Simulation, c: LoweredCircuit, step: number): TraceFrame {
 	const st = replayTo(sim, c, step);
@@ -206,6 +205,7 @@ export function firstFrame(circuit: LoweredCircuit, inputs: RunInputs = {}, opti
 	return frameOf(sim, circuit, 0);
 }
 
+/** Ledger global phase of the final state (turns), when the run stayed on the ledger. */
 export function finalGlobalPhase(run: Run): Angle | null {
 	const st = run.stateAt(run.lastStep);
 	return st.engine === 'ledger' ? ledgerGlobalPhase(st.ledger, buildLedgerTables(run.circuit)) : null;

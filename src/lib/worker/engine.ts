@@ -109,7 +109,7 @@ interface PreparedCircuit {
 
 // What depends on the document only (lowering, specs, the prover's section search) is kept for
 // the last document, so changing only the inputs does not lower and scan the circuit again.
-let lastPrepared: { key: string; circuit: LoweredCircuit; intents: Omit<PreparedCircuit, 'circuit'> | null } | null = null;
+let lastPrepared: { doc: CircuitDocument; key: string; circuit: LoweredCircuit; intents: Omit<PreparedCircuit, 'circuit'> | null } | null = null;
 
 /**
  * The expectations a run checks against: the specs as register intents and, for circuits with no
@@ -122,10 +122,12 @@ export function prepareIntents(doc: CircuitDocument, circuit: LoweredCircuit): O
 	return { intents, problems, intentSections };
 }
 
-/** The document lowered (kept for the last document). */
+/** The document lowered, kept for the last document: the same object (documents arrive by message and are never changed here), or one with the same JSON. */
 function lowerCached(doc: CircuitDocument): NonNullable<typeof lastPrepared> {
+	if (lastPrepared?.doc === doc) return lastPrepared;
 	const key = JSON.stringify(doc);
-	if (lastPrepared?.key !== key) lastPrepared = { key, circuit: lowerCircuit(doc), intents: null };
+	if (lastPrepared?.key !== key) lastPrepared = { doc, key, circuit: lowerCircuit(doc), intents: null };
+	else lastPrepared.doc = doc;
 	return lastPrepared;
 }
 
