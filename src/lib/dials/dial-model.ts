@@ -35,6 +35,11 @@ export interface DialGroup {
 /** Turns below this count as "in phase" for drawing (exact zero for dyadic angles). */
 export const DIVERGENCE_EPSILON = 1e-9;
 
+/** A dial's actual angle as written beside it: the exact text, else the float to 4 places. */
+export function dialAngleText(q: DialQubit): string {
+	return q.angleText ?? (q.angle !== undefined ? q.angle.toFixed(4) : '?');
+}
+
 export function isDiverged(q: DialQubit): boolean {
 	return q.divergence !== undefined && Math.abs(q.divergence) > DIVERGENCE_EPSILON;
 }

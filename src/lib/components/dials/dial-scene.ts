@@ -8,6 +8,7 @@ import { Application, BitmapText, Circle, Container, extensions, ExtensionType, 
 // and uniform code (new Function) for prebuilt functions. Imported after pixi.js, before any Application.
 import 'pixi.js/unsafe-eval';
 import {
+	dialAngleText,
 	groupByRegister,
 	isDiverged,
 	layoutDials,
@@ -272,7 +273,7 @@ export async function createDialScene(host: HTMLElement, opts: DialSceneOptions 
 	// expected one on a second line, so a reader needs no hover to compare them.
 	function subText(q: DialQubit): string {
 		if (q.kind === 'classical') return `bit ${q.bit}`;
-		const ang = q.angleText ?? (q.angle !== undefined ? q.angle.toFixed(4) : '?');
+		const ang = dialAngleText(q);
 		const focus = selected === q.qubit || isDiverged(q);
 		if (focus && q.expectedText !== undefined) return `is ${ang}\nwants ${q.expectedText}`;
 		// The selected dial without a ring marker says so (the board's header and the ledger say why).
