@@ -177,7 +177,7 @@ describe('step 0 before the whole run (the preview the board draws first)', () =
 			if (regs.length > 1 && regs[0].size <= 4) inputSets.push({ values: {}, superposed: [regs[0].name] });
 			for (const inputs of inputSets) {
 				const previews: FrameView[] = [];
-				const out = handleRequest(null, { id: 1, type: 'load', doc: structuredClone(doc), inputs }, undefined, (f) => previews.push(f));
+				const out = beginLoad({ id: 1, type: 'load', doc: structuredClone(doc), inputs, preview: true }, (f) => previews.push(f)).finish();
 				if (out.response.type !== 'loaded') throw new Error(`${name}: ${JSON.stringify(out.response)}`);
 				expect(previews.length, name).toBe(1);
 				expect(previews[0], `${name} ${JSON.stringify(inputs)}`).toEqual(out.response.frame);
@@ -212,7 +212,7 @@ describe('step 0 before the whole run (the preview the board draws first)', () =
 		const doc = makeTemplate('adder');
 		(doc.body[1] as { addend: string }).addend = 'nope';
 		const previews: FrameView[] = [];
-		const out = handleRequest(null, { id: 7, type: 'load', doc, inputs: { values: {}, superposed: [] } }, undefined, (f) => previews.push(f));
+		const out = beginLoad({ id: 7, type: 'load', doc, inputs: { values: {}, superposed: [] }, preview: true }, (f) => previews.push(f)).finish();
 		expect(out.response.type).toBe('error');
 		expect(previews).toEqual([]);
 	});

@@ -196,14 +196,9 @@ export class EngineSession {
 	readonly #resets = new Map<number, { qubit: number; p1: number }[]>();
 	private labels: string[];
 
-	/**
-	 * Lower and run `req`. With `preview`, step 0 is handed over as soon as the circuit is lowered,
-	 * before the specs are read and the run goes through every gate (the same frame as `frame(0)`
-	 * afterwards; engine.test.ts compares them).
-	 */
-	constructor(req: Extract<WorkerRequest, { type: 'load' }>, preview?: (frame: FrameView) => void) {
+	/** Lower and run `req` (step 0 ahead of the run is {@link beginLoad}'s). */
+	constructor(req: Extract<WorkerRequest, { type: 'load' }>) {
 		const t0 = Date.now();
-		if (preview) preview(previewOf(lowerCached(req.doc).circuit, req));
 		const prepared = prepareCircuit(req.doc);
 		this.circuit = prepared.circuit;
 		const c = this.circuit;
@@ -452,14 +447,12 @@ export function runCheck(req: Extract<WorkerRequest, { type: 'check' }>, progres
 export function handleRequest(
 	session: EngineSession | null,
 	req: WorkerRequest,
-	progress: (done: number, total: number) => void = () => {},
-	/** Step 0 of a load, sent before the whole run is computed (see EngineSession). */
-	preview?: (frame: FrameView) => void
+	progress: (done: number, total: number) => void = () => {}
 ): { session: EngineSession | null; response: WorkerResponse } {
 	try {
 		if (req.type === 'check') return { session, response: runCheck(req, progress) };
 		if (req.type === 'load') {
-			const s = new EngineSession(req, preview);
+			const s = new EngineSession(req);
 			return { session: s, response: { id: req.id, type: 'loaded', summary: s.summary, frame: s.frame(0) } };
 		}
 		if (req.type === 'drawn') return { session, response: { id: req.id, type: 'error', message: 'Nothing waits for a drawn board.' } };
